@@ -1,0 +1,521 @@
+//! Lexicon stage: TSV word lists → normalized, merged entries → an FST index
+//! that can be walked one character at a time from any state.
+//!
+//! TSV format: `form<TAB>frequency<TAB>tags`, `#` starts a comment line,
+//! frequency and tags are optional, tags are `key=value` pairs separated by
+//! `;`. A second column that is not a number but contains `=` is read as tags.
+//! Forms are normalized as the rule-set says (Unicode form, case folding,
+//! variant folds); forms that normalize to the same key are merged: their
+//! frequencies add up, their tag sets are kept as separate readings, and the
+//! most frequent spelling is kept for display.
+
+pub mod bundled;
+
+use crate::normalize::Normalizer;
+use crate::rules::{Condition, RuleSet};
+use fst::raw::{CompiledAddr, Output};
+use std::collections::{BTreeMap, BTreeSet, HashMap};
+
+/// Tags of one reading of an entry.
+pub type Tags = BTreeMap<String, String>;
+
+/// One lexicon entry.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Entry {
+    /// The normalized form used for matching.
+    pub key: String,
+    /// The form as written in the lexicon (the most frequent spelling).
+    pub form: String,
+    /// Frequency (1 when no file gave one).
+    pub frequency: f64,
+    /// Tag sets, one per reading.
+    pub readings: Vec<Tags>,
+}
+
+/// A problem with one lexicon line.
+#[derive(Debug, Clone, PartialEq, Eq)]
+pub struct LexiconIssue {
+    /// File name.
+    pub file: String,
+    /// 1-based line number.
+    pub line: usize,
+    /// What is wrong.
+    pub message: String,
+}
+
+impl std::fmt::Display for LexiconIssue {
+    fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+        write!(f, "{}:{}: {}", self.file, self.line, self.message)
+    }
+}
+
+/// Errors that stop a lexicon from loading.
+#[derive(Debug, thiserror::Error)]
+#[non_exhaustive]
+pub enum LexiconError {
+    /// A malformed line, in strict mode.
+    #[error("{0} (strict mode: malformed lines are fatal)")]
+    Malformed(LexiconIssue),
+    /// The file could not be read.
+    #[error("cannot read lexicon {file}: {source}")]
+    Io {
+        /// File name.
+        file: String,
+        /// The underlying error.
+        source: std::io::Error,
+    },
+    /// Building the index failed.
+    #[error("cannot build the lexicon index: {0}")]
+    Index(#[from] fst::Error),
+    /// A compiled index file is unusable.
+    #[error("{file}: {message}")]
+    BadIndex {
+        /// File name.
+        file: String,
+        /// What is wrong and how to fix it.
+        message: String,
+    },
+}
+
+#[derive(Debug, Default)]
+struct Accumulator {
+    frequency: Option<f64>,
+    spellings: Vec<(String, f64)>,
+    readings: Vec<Tags>,
+}
+
+/// Collects entries from files and builds a [`Lexicon`].
+#[derive(Debug)]
+pub struct LexiconBuilder {
+    normalizer: Normalizer,
+    strict: bool,
+    entries: HashMap<String, Accumulator>,
+    issues: Vec<LexiconIssue>,
+    lines_read: usize,
+}
+
+impl LexiconBuilder {
+    /// A builder normalizing forms as `normalizer` says.
+    pub fn new(normalizer: &Normalizer) -> Self {
+        LexiconBuilder {
+            normalizer: normalizer.clone(),
+            strict: false,
+            entries: HashMap::new(),
+            issues: Vec::new(),
+            lines_read: 0,
+        }
+    }
+
+    /// In strict mode the first malformed line is an error; otherwise it is skipped
+    /// and listed in [`issues`](Self::issues).
+    pub fn strict(mut self, strict: bool) -> Self {
+        self.strict = strict;
+        self
+    }
+
+    /// Malformed lines skipped so far.
+    pub fn issues(&self) -> &[LexiconIssue] {
+        &self.issues
+    }
+
+    /// Adds one entry.
+    pub fn add(&mut self, form: &str, frequency: Option<f64>, tags: Tags) {
+        let key = self.normalizer.normalize(form);
+        if key.is_empty() {
+            return;
+        }
+        let acc = self.entries.entry(key).or_default();
+        if let Some(f) = frequency {
+            *acc.frequency.get_or_insert(0.0) += f;
+        }
+        match acc.spellings.iter_mut().find(|(s, _)| s == form) {
+            Some((_, f)) => *f += frequency.unwrap_or(0.0),
+            None => acc
+                .spellings
+                .push((form.to_string(), frequency.unwrap_or(0.0))),
+        }
+        if !acc.readings.contains(&tags) {
+            acc.readings.push(tags);
+        }
+    }
+
+    fn issue(&mut self, file: &str, line: usize, message: String) -> Result<(), LexiconError> {
+        let issue = LexiconIssue {
+            file: file.to_string(),
+            line,
+            message,
+        };
+        if self.strict {
+            return Err(LexiconError::Malformed(issue));
+        }
+        self.issues.push(issue);
+        Ok(())
+    }
+
+    /// Adds every line of a TSV text. Lines that are not UTF-8 or malformed
+    /// are reported with their line number.
+    pub fn add_tsv(&mut self, file: &str, bytes: &[u8]) -> Result<(), LexiconError> {
+        for (i, raw) in bytes.split(|&b| b == b'\n').enumerate() {
+            let line_no = i + 1;
+            let raw = raw.strip_suffix(b"\r").unwrap_or(raw);
+            let Ok(line) = std::str::from_utf8(raw) else {
+                self.issue(file, line_no, "the line is not UTF-8".into())?;
+                continue;
+            };
+            let line = line.strip_prefix('\u{FEFF}').unwrap_or(line);
+            if line.trim().is_empty() || line.trim_start().starts_with('#') {
+                continue;
+            }
+            self.lines_read += 1;
+            match parse_line(line) {
+                Ok((form, freq, tags)) => self.add(form, freq, tags),
+                Err(message) => self.issue(file, line_no, message)?,
+            }
+        }
+        Ok(())
+    }
+
+    /// Reads a TSV file from disk.
+    pub fn add_tsv_file(&mut self, path: &std::path::Path) -> Result<(), LexiconError> {
+        let name = path.display().to_string();
+        let bytes = std::fs::read(path).map_err(|source| LexiconError::Io {
+            file: name.clone(),
+            source,
+        })?;
+        self.add_tsv(&name, &bytes)
+    }
+
+    /// Builds the index.
+    pub fn build(self) -> Result<Lexicon, LexiconError> {
+        let mut keys: Vec<(String, Accumulator)> = self.entries.into_iter().collect();
+        keys.sort_by(|a, b| a.0.as_bytes().cmp(b.0.as_bytes()));
+        let mut builder = fst::MapBuilder::memory();
+        let mut entries = Vec::with_capacity(keys.len());
+        for (i, (key, acc)) in keys.into_iter().enumerate() {
+            builder.insert(key.as_bytes(), i as u64)?;
+            let form = acc
+                .spellings
+                .iter()
+                .fold(None::<&(String, f64)>, |best, s| match best {
+                    Some(b) if b.1 >= s.1 => Some(b),
+                    _ => Some(s),
+                })
+                .map(|s| s.0.clone())
+                .unwrap_or_else(|| key.clone());
+            let mut readings = acc.readings;
+            if readings.len() > 1 {
+                readings.retain(|r| !r.is_empty());
+            }
+            entries.push(Entry {
+                key,
+                form,
+                frequency: acc.frequency.unwrap_or(1.0).max(0.0),
+                readings,
+            });
+        }
+        let bytes = builder.into_inner()?;
+        let index = fst::Map::new(bytes)?;
+        Ok(Lexicon::from_parts(index, entries))
+    }
+}
+
+fn parse_line(line: &str) -> Result<(&str, Option<f64>, Tags), String> {
+    let mut cols = line.split('\t');
+    let form = cols.next().unwrap_or("").trim();
+    if form.is_empty() {
+        return Err("the form (first column) is empty".into());
+    }
+    let mut frequency = None;
+    let mut tags_col = None;
+    if let Some(second) = cols.next() {
+        let second = second.trim();
+        if !second.is_empty() {
+            match second.parse::<f64>() {
+                Ok(f) if f.is_finite() && f >= 0.0 => frequency = Some(f),
+                Ok(_) => return Err(format!("frequency `{second}` is not a finite number ≥ 0")),
+                Err(_) if second.contains('=') => tags_col = Some(second),
+                Err(_) => return Err(format!("frequency `{second}` is not a number")),
+            }
+        }
+    }
+    if let Some(third) = cols.next() {
+        if tags_col.is_some() && !third.trim().is_empty() {
+            return Err("tags given twice (second and third column)".into());
+        }
+        if !third.trim().is_empty() {
+            tags_col = Some(third.trim());
+        }
+    }
+    if cols.next().is_some_and(|c| !c.trim().is_empty()) {
+        return Err("more than three columns".into());
+    }
+    let tags = match tags_col {
+        Some(t) => parse_tags(t)?,
+        None => Tags::new(),
+    };
+    Ok((form, frequency, tags))
+}
+
+/// Parses `key=value;key=value`.
+pub fn parse_tags(text: &str) -> Result<Tags, String> {
+    let mut tags = Tags::new();
+    for pair in text.split(';').map(str::trim).filter(|p| !p.is_empty()) {
+        let Some((k, v)) = pair.split_once('=') else {
+            return Err(format!("tag `{pair}` is not of the form key=value"));
+        };
+        let (k, v) = (k.trim(), v.trim());
+        if k.is_empty() {
+            return Err(format!("tag `{pair}` has an empty key"));
+        }
+        tags.insert(k.to_string(), v.to_string());
+    }
+    Ok(tags)
+}
+
+/// A compiled lexicon: entries plus an FST from normalized form to entry.
+#[derive(Debug, Clone)]
+pub struct Lexicon {
+    index: fst::Map<Vec<u8>>,
+    entries: Vec<Entry>,
+    total_frequency: f64,
+    tag_keys: BTreeSet<String>,
+}
+
+/// A position in the lexicon index: the entries that start with what has been
+/// walked so far.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub struct Cursor {
+    addr: CompiledAddr,
+    output: u64,
+}
+
+impl Lexicon {
+    fn from_parts(index: fst::Map<Vec<u8>>, entries: Vec<Entry>) -> Lexicon {
+        let total_frequency = entries.iter().map(|e| e.frequency).sum::<f64>().max(1.0);
+        let tag_keys = entries
+            .iter()
+            .flat_map(|e| e.readings.iter().flat_map(|r| r.keys().cloned()))
+            .collect();
+        Lexicon {
+            index,
+            entries,
+            total_frequency,
+            tag_keys,
+        }
+    }
+
+    /// An empty lexicon.
+    pub fn empty() -> Lexicon {
+        let index = fst::Map::from_iter(std::iter::empty::<(&[u8], u64)>())
+            .expect("an empty map always builds");
+        Lexicon::from_parts(index, Vec::new())
+    }
+
+    /// Number of entries.
+    pub fn len(&self) -> usize {
+        self.entries.len()
+    }
+
+    /// Whether there are no entries.
+    pub fn is_empty(&self) -> bool {
+        self.entries.is_empty()
+    }
+
+    /// Sum of all frequencies.
+    pub fn total_frequency(&self) -> f64 {
+        self.total_frequency
+    }
+
+    /// Every tag key used by some entry.
+    pub fn tag_keys(&self) -> &BTreeSet<String> {
+        &self.tag_keys
+    }
+
+    /// All entries, in key order.
+    pub fn entries(&self) -> &[Entry] {
+        &self.entries
+    }
+
+    /// Entry by index.
+    pub fn entry(&self, id: usize) -> &Entry {
+        &self.entries[id]
+    }
+
+    /// Looks up a normalized key.
+    pub fn get(&self, key: &str) -> Option<usize> {
+        self.index.get(key.as_bytes()).map(|v| v as usize)
+    }
+
+    /// The state before any character.
+    pub fn root(&self) -> Cursor {
+        Cursor {
+            addr: self.index.as_fst().root().addr(),
+            output: 0,
+        }
+    }
+
+    /// Walks one byte.
+    pub fn step(&self, cursor: Cursor, byte: u8) -> Option<Cursor> {
+        let fst = self.index.as_fst();
+        let node = fst.node(cursor.addr);
+        let t = node.transition(node.find_input(byte)?);
+        Some(Cursor {
+            addr: t.addr,
+            output: Output::new(cursor.output).cat(t.out).value(),
+        })
+    }
+
+    /// Walks the bytes of a string.
+    pub fn step_str(&self, mut cursor: Cursor, text: &str) -> Option<Cursor> {
+        for b in text.bytes() {
+            cursor = self.step(cursor, b)?;
+        }
+        Some(cursor)
+    }
+
+    /// Walks one character.
+    pub fn step_char(&self, cursor: Cursor, c: char) -> Option<Cursor> {
+        let mut buf = [0u8; 4];
+        self.step_str(cursor, c.encode_utf8(&mut buf))
+    }
+
+    /// The entry that ends exactly here, if any.
+    pub fn entry_at(&self, cursor: Cursor) -> Option<usize> {
+        let node = self.index.as_fst().node(cursor.addr);
+        node.is_final()
+            .then(|| Output::new(cursor.output).cat(node.final_output()).value() as usize)
+    }
+
+    /// Whether a condition holds for an entry.
+    pub fn holds(&self, id: usize, condition: &Condition) -> bool {
+        let e = &self.entries[id];
+        condition_holds(condition, &e.key, &e.readings)
+    }
+
+    /// Log-probability of an entry's frequency, add-one smoothed over the lexicon.
+    pub fn log_probability(&self, frequency: f64) -> f64 {
+        ((frequency + 1.0) / (self.total_frequency + self.entries.len() as f64 + 1.0)).ln()
+    }
+
+    /// Loads the lexicon a rule-set names (`set lexicon = NAME`) plus extra files.
+    pub fn for_rules(
+        rules: &RuleSet,
+        extra: &[std::path::PathBuf],
+        include_default: bool,
+        strict: bool,
+    ) -> Result<(Lexicon, Vec<LexiconIssue>), LexiconError> {
+        let mut builder = LexiconBuilder::new(&rules.normalizer).strict(strict);
+        if include_default {
+            if let Some(name) = &rules.settings.lexicon {
+                bundled::add_bundled(&mut builder, name)?;
+            }
+        }
+        for path in extra {
+            builder.add_tsv_file(path)?;
+        }
+        let issues = builder.issues().to_vec();
+        Ok((builder.build()?, issues))
+    }
+}
+
+/// Evaluates a tag condition against a form and its readings. The key `form`
+/// tests the normalized form itself.
+pub fn condition_holds(condition: &Condition, key: &str, readings: &[Tags]) -> bool {
+    let value_of = |r: &Tags| -> Option<String> {
+        if condition.key == "form" {
+            Some(key.to_string())
+        } else {
+            r.get(&condition.key).cloned()
+        }
+    };
+    let any_reading = |f: &dyn Fn(Option<String>) -> bool| -> bool {
+        if readings.is_empty() {
+            f(value_of(&Tags::new()))
+        } else {
+            readings.iter().any(|r| f(value_of(r)))
+        }
+    };
+    match &condition.test {
+        None => any_reading(&|v| v.is_some()),
+        Some((true, values)) => {
+            any_reading(&|v| v.is_some_and(|v| v.split('|').any(|x| values.iter().any(|w| w == x))))
+        }
+        Some((false, values)) => !any_reading(&|v| {
+            v.is_some_and(|v| v.split('|').any(|x| values.iter().any(|w| w == x)))
+        }),
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn lexicon(text: &str) -> (Lexicon, Vec<LexiconIssue>) {
+        let n = Normalizer {
+            fold_case: true,
+            ..Normalizer::default()
+        };
+        let mut b = LexiconBuilder::new(&n);
+        b.add_tsv("t.tsv", text.as_bytes()).unwrap();
+        let issues = b.issues().to_vec();
+        (b.build().unwrap(), issues)
+    }
+
+    #[test]
+    fn merges_duplicates_and_keeps_readings() {
+        let (lex, issues) =
+            lexicon("Essen\t30\tpos=noun\nessen\t50\tpos=verb\n# comment\n\nHaus\n");
+        assert!(issues.is_empty());
+        assert_eq!(lex.len(), 2);
+        let e = lex.entry(lex.get("essen").unwrap());
+        assert_eq!(e.frequency, 80.0);
+        assert_eq!(e.form, "essen");
+        assert_eq!(e.readings.len(), 2);
+        assert_eq!(lex.entry(lex.get("haus").unwrap()).frequency, 1.0);
+    }
+
+    #[test]
+    fn reports_bad_lines_with_numbers() {
+        let (lex, issues) = lexicon("gut\t1\nschlecht\tviel\n\tleer\nx\t1\tnotag\n\u{0}ok\t2\n");
+        assert_eq!(lex.len(), 2);
+        let lines: Vec<usize> = issues.iter().map(|i| i.line).collect();
+        assert_eq!(lines, vec![2, 3, 4]);
+    }
+
+    #[test]
+    fn strict_mode_fails_on_first_bad_line() {
+        let mut b = LexiconBuilder::new(&Normalizer::default()).strict(true);
+        let err = b.add_tsv("s.tsv", b"ok\nbad\tx\n").unwrap_err();
+        assert!(err.to_string().contains("s.tsv:2"));
+    }
+
+    #[test]
+    fn walks_step_by_step() {
+        let (lex, _) = lexicon("arbeit\t10\narbeitsamt\t2\namt\t5\n");
+        let c = lex.step_str(lex.root(), "arbeit").unwrap();
+        assert_eq!(lex.entry(lex.entry_at(c).unwrap()).key, "arbeit");
+        let c = lex.step_char(c, 's').unwrap();
+        assert!(lex.entry_at(c).is_none());
+        let c = lex.step_str(c, "amt").unwrap();
+        assert_eq!(lex.entry(lex.entry_at(c).unwrap()).key, "arbeitsamt");
+        assert!(lex.step_char(c, 'x').is_none());
+    }
+
+    #[test]
+    fn tags_in_second_column() {
+        let (lex, issues) = lexicon("ve\tpos=prefix;role=first\n");
+        assert!(issues.is_empty());
+        assert_eq!(
+            lex.entry(0).readings[0].get("role").map(String::as_str),
+            Some("first")
+        );
+    }
+
+    #[test]
+    fn non_utf8_line_is_reported() {
+        let n = Normalizer::default();
+        let mut b = LexiconBuilder::new(&n);
+        b.add_tsv("b.tsv", b"good\n\xff\xfe\n").unwrap();
+        assert_eq!(b.issues()[0].line, 2);
+    }
+}

@@ -1,0 +1,174 @@
+//! Output stage: renderings of split and join results. `text` is a readable
+//! proof chain; `jsonl` one JSON object per input line; `json` a JSON array;
+//! `yaml` a YAML sequence; `tsv` one line per input.
+
+use crate::analyzer::SplitRecord;
+use crate::proof::{Analysis, JoinResult};
+use crate::rules::Separator;
+use std::fmt::Write;
+
+/// Output formats.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum Format {
+    /// Readable proof chains.
+    Text,
+    /// One JSON object per line.
+    Jsonl,
+    /// One JSON array for the whole run.
+    Json,
+    /// One YAML sequence for the whole run.
+    Yaml,
+    /// One tab-separated line per input.
+    Tsv,
+}
+
+fn show_underlying(s: &str) -> String {
+    if s.is_empty() {
+        "∅".to_string()
+    } else {
+        s.to_string()
+    }
+}
+
+/// One analysis as a readable proof chain (several lines, indented): for each
+/// junction the two parts, the underlying letters the rule replaced, the
+/// surface it produced (boundary shown as `|`, `_`, `-`, or a merged segment
+/// in parentheses), the rule, its cost and the input offset.
+pub fn analysis_text(a: &Analysis, out: &mut String) {
+    let _ = writeln!(out, "  {}. {}    score {}", a.rank, a.parts_text(), a.score);
+    for (i, j) in a.junctions.iter().enumerate() {
+        let _ = writeln!(
+            out,
+            "       {} + {}: {} + {} → {}  by {} (cost {}) at {}",
+            a.parts[i].form,
+            a.parts[i + 1].form,
+            show_underlying(&j.left),
+            show_underlying(&j.right),
+            j.marked_surface(),
+            j.rule,
+            j.cost,
+            j.at
+        );
+    }
+}
+
+/// A split record as text.
+pub fn split_text(r: &SplitRecord) -> String {
+    let mut out = String::new();
+    let noun = if r.count.0 == 1u32.into() {
+        "analysis"
+    } else {
+        "analyses"
+    };
+    let _ = write!(out, "{}: {} {}", r.input, r.count, noun);
+    if let Some(reason) = r.reason {
+        if !r.analyses.is_empty() || r.error.is_none() {
+            let _ = write!(out, " ({} shown; {})", r.analyses.len(), reason.describe());
+        }
+    }
+    out.push('\n');
+    if let Some(e) = &r.error {
+        let _ = writeln!(out, "  error: {e}");
+    }
+    for a in &r.analyses {
+        analysis_text(a, &mut out);
+    }
+    out
+}
+
+/// A split record as one TSV line: input, count, then for each analysis the
+/// parts joined by `+`, the rules joined by `,`, and the score.
+pub fn split_tsv(r: &SplitRecord) -> String {
+    let clean = |s: &str| s.replace(['\t', '\n', '\r'], " ");
+    let mut cols = vec![clean(&r.input), r.count.to_string()];
+    if let Some(e) = &r.error {
+        cols.push(format!("error: {}", clean(e)));
+    }
+    for a in &r.analyses {
+        cols.push(
+            a.parts
+                .iter()
+                .map(|p| clean(&p.form))
+                .collect::<Vec<_>>()
+                .join("+"),
+        );
+        cols.push(
+            a.junctions
+                .iter()
+                .map(|j| j.rule.clone())
+                .collect::<Vec<_>>()
+                .join(","),
+        );
+        cols.push(a.score.to_string());
+    }
+    cols.join("\t") + "\n"
+}
+
+/// A join result as text.
+pub fn join_text(r: &JoinResult) -> String {
+    let mut out = String::new();
+    let _ = writeln!(
+        out,
+        "{}: {} way{}{}",
+        r.parts.join(" + "),
+        r.count,
+        if r.count == 1 { "" } else { "s" },
+        if r.truncated {
+            " (list cut at the limit)"
+        } else {
+            ""
+        }
+    );
+    for j in &r.results {
+        let rules: Vec<String> = j
+            .junctions
+            .iter()
+            .map(|s| {
+                format!(
+                    "{} ({} + {} → {})",
+                    s.rule,
+                    show_underlying(&s.left),
+                    show_underlying(&s.right),
+                    show_underlying(&s.surface.replace(' ', "_"))
+                )
+            })
+            .collect();
+        let _ = writeln!(
+            out,
+            "  {}. {}    cost {}    {}",
+            j.rank,
+            j.surface,
+            j.cost,
+            rules.join(", ")
+        );
+    }
+    out
+}
+
+/// A join result as one TSV line: parts, count, then surface and rules per way.
+pub fn join_tsv(r: &JoinResult) -> String {
+    let mut cols = vec![r.parts.join("+"), r.count.to_string()];
+    for j in &r.results {
+        cols.push(j.surface.clone());
+        cols.push(
+            j.junctions
+                .iter()
+                .map(|s| s.rule.clone())
+                .collect::<Vec<_>>()
+                .join(","),
+        );
+    }
+    cols.join("\t") + "\n"
+}
+
+/// Serializes a value as one YAML sequence item (for streaming a sequence).
+pub fn yaml_item<T: serde::Serialize>(value: &T) -> String {
+    let body = serde_yaml::to_string(value).unwrap_or_else(|e| format!("error: {e}\n"));
+    let mut out = String::new();
+    for (i, line) in body.lines().enumerate() {
+        out.push_str(if i == 0 { "- " } else { "  " });
+        out.push_str(line);
+        out.push('\n');
+    }
+    out
+}

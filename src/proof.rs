@@ -1,0 +1,570 @@
+//! Proof stage: analyses with their proof chains, forward verification, and
+//! forward joining of parts.
+//!
+//! An analysis is a sequence of parts `w1 … wn` and junction instances
+//! `r1 … r(n-1)`. Applying the junctions forward, left to right, must give the
+//! input back exactly; [`verify`] does that for every analysis reported.
+//!
+//! Forward application of junction `r` between the text built so far and the
+//! next word `w`: the text must end with the rule's underlying left end `L`,
+//! `w` must start with its underlying right start `R`; the result is the text
+//! without `L`, then the junction's surface, then `w` without `R`. Within one
+//! word, the start taken by the junction before it and the end taken by the
+//! junction after it may not overlap, and every word must leave a trace on
+//! the surface (its own letters, or a junction that prints something).
+
+use crate::lattice::{part_readings, Edge, Lattice, PartSource};
+use crate::lexicon::{condition_holds, Lexicon, Tags};
+use crate::rules::{RuleSet, Scope, Separator};
+use crate::search::ScoredPath;
+use serde::Serialize;
+use std::collections::BTreeMap;
+
+/// One part of an analysis.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct Part {
+    /// The lexicon form (as written in the lexicon).
+    pub form: String,
+    /// The part's stretch of the input, as written there.
+    pub surface: String,
+    /// Start of that stretch, in characters of the (NFC) input.
+    pub start: usize,
+    /// End of that stretch.
+    pub end: usize,
+    /// Tags; where readings differ, the values are joined with `|`.
+    pub tags: BTreeMap<String, String>,
+    /// Every reading, when the form has more than one.
+    #[serde(skip_serializing_if = "Vec::is_empty")]
+    pub readings: Vec<Tags>,
+    /// Where the part came from: `lexicon` or `pattern:NAME`.
+    pub source: String,
+    /// The normalized form used for matching.
+    #[serde(skip)]
+    pub key: String,
+}
+
+/// One junction of an analysis: a step of the proof chain.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct Junction {
+    /// Rule name.
+    pub rule: String,
+    /// Underlying end of the left word that the rule replaced.
+    pub left: String,
+    /// Underlying start of the right word that the rule replaced.
+    pub right: String,
+    /// What the junction shows on the surface (input characters).
+    pub surface: String,
+    /// Start of that surface in the input, in characters.
+    pub at: usize,
+    /// Where the boundary falls: `none` (between letters), `space`, `hyphen`, or `merged`.
+    pub boundary: Separator,
+    /// Compound, phrase or any.
+    pub scope: Scope,
+    /// The rule's cost.
+    pub cost: f64,
+    /// Index of the instance in the rule-set.
+    #[serde(skip)]
+    pub instance: usize,
+    /// Characters of `surface` before the boundary.
+    #[serde(skip)]
+    pub split_at: usize,
+}
+
+impl Junction {
+    /// The surface with the boundary shown: `an|a`, `d_a`, `(e)` for a merged
+    /// segment, `|` when nothing is printed.
+    pub fn marked_surface(&self) -> String {
+        let chars: Vec<char> = self.surface.chars().collect();
+        let cut = self.split_at.min(chars.len());
+        let before: String = chars[..cut].iter().collect();
+        match self.boundary {
+            Separator::Merged => format!("({})", self.surface),
+            Separator::None => format!("{before}|{}", chars[cut..].iter().collect::<String>()),
+            Separator::Space | Separator::Hyphen => {
+                let after: String = chars[(cut + 1).min(chars.len())..].iter().collect();
+                format!(
+                    "{before}{}{after}",
+                    if self.boundary == Separator::Space {
+                        "_"
+                    } else {
+                        "-"
+                    }
+                )
+            }
+        }
+    }
+}
+
+/// A ranked analysis with its proof chain.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct Analysis {
+    /// 1-based rank.
+    pub rank: usize,
+    /// Score (higher is better), see the ranking model.
+    pub score: f64,
+    /// Parts, left to right.
+    pub parts: Vec<Part>,
+    /// Junctions between consecutive parts.
+    pub junctions: Vec<Junction>,
+}
+
+impl Analysis {
+    /// Parts' lexicon forms joined by ` + `.
+    pub fn parts_text(&self) -> String {
+        self.parts
+            .iter()
+            .map(|p| p.form.as_str())
+            .collect::<Vec<_>>()
+            .join(" + ")
+    }
+}
+
+fn merge_tags(readings: &[Tags]) -> BTreeMap<String, String> {
+    let mut out: BTreeMap<String, Vec<String>> = BTreeMap::new();
+    for r in readings {
+        for (k, v) in r {
+            let vals = out.entry(k.clone()).or_default();
+            if !vals.contains(v) {
+                vals.push(v.clone());
+            }
+        }
+    }
+    out.into_iter().map(|(k, v)| (k, v.join("|"))).collect()
+}
+
+/// Turns a lattice path into an analysis with offsets in the original input.
+pub fn analysis(
+    lattice: &Lattice,
+    rules: &RuleSet,
+    lexicon: &Lexicon,
+    path: &ScoredPath,
+    rank: usize,
+) -> Analysis {
+    let text = &lattice.text;
+    let mut parts = Vec::new();
+    let mut junctions = Vec::new();
+    // Surface start of the next part (normalized), set by the junction before it.
+    let mut next_start = 0usize;
+    let mut pending_part: Option<(usize, Part)> = None;
+    for &e in &path.edges {
+        match &lattice.graph[e] {
+            Edge::Word(w) => {
+                let mut scratch = Vec::new();
+                let readings = part_readings(rules, lexicon, w.source, &mut scratch).to_vec();
+                let (form, source) = match w.source {
+                    PartSource::Entry(id) => {
+                        (lexicon.entry(id).form.clone(), "lexicon".to_string())
+                    }
+                    PartSource::Pattern(p) => (
+                        text.original_slice(w.start, w.end),
+                        format!("pattern:{}", rules.patterns[p].name),
+                    ),
+                };
+                let part = Part {
+                    form,
+                    surface: String::new(),
+                    start: next_start,
+                    end: w.end,
+                    tags: merge_tags(&readings),
+                    readings: if readings.len() > 1 {
+                        readings
+                    } else {
+                        Vec::new()
+                    },
+                    source,
+                    key: w.key.clone(),
+                };
+                pending_part = Some((w.end, part));
+            }
+            Edge::Junction { instance } => {
+                let inst = &rules.instances[*instance];
+                let rule = &rules.rules[inst.rule];
+                let (x_end, mut part) = pending_part.take().expect("a junction follows a word");
+                let at = x_end;
+                let len = inst.surface_chars();
+                let left_len = inst.surface_left.chars().count();
+                part.end = at + left_len;
+                next_start = match inst.separator {
+                    Separator::Merged => at,
+                    _ => at + left_len + inst.separator.text().len(),
+                };
+                parts.push(part);
+                junctions.push(Junction {
+                    rule: rule.name.clone(),
+                    left: inst.left.clone(),
+                    right: inst.right.clone(),
+                    surface: text.original_slice(at, at + len),
+                    at: text.original_offset(at),
+                    boundary: inst.separator,
+                    scope: inst.scope,
+                    cost: rule.cost,
+                    instance: *instance,
+                    split_at: left_len,
+                });
+            }
+        }
+    }
+    if let Some((_, part)) = pending_part {
+        parts.push(part);
+    }
+    for p in &mut parts {
+        p.surface = text.original_slice(p.start, p.end);
+        let (s, e) = (text.original_offset(p.start), text.original_offset(p.end));
+        p.start = s;
+        p.end = e.max(s);
+    }
+    Analysis {
+        rank,
+        score: (path.score * 10_000.0).round() / 10_000.0,
+        parts,
+        junctions,
+    }
+}
+
+/// Why forward application failed.
+#[derive(Debug, Clone, PartialEq, Eq, thiserror::Error)]
+#[non_exhaustive]
+pub enum VerifyError {
+    /// Parts and junctions do not alternate.
+    #[error("{parts} parts need {} junctions, got {junctions}", parts.saturating_sub(1))]
+    Shape {
+        /// Parts.
+        parts: usize,
+        /// Junctions.
+        junctions: usize,
+    },
+    /// A word does not end with the rule's left side.
+    #[error("junction {index} ({rule}): `{word}` does not end with `{expected}`")]
+    LeftEnd {
+        /// Junction index.
+        index: usize,
+        /// Rule.
+        rule: String,
+        /// The word.
+        word: String,
+        /// The rule's left end.
+        expected: String,
+    },
+    /// A word does not start with the rule's right side.
+    #[error("junction {index} ({rule}): `{word}` does not start with `{expected}`")]
+    RightStart {
+        /// Junction index.
+        index: usize,
+        /// Rule.
+        rule: String,
+        /// The word.
+        word: String,
+        /// The rule's right start.
+        expected: String,
+    },
+    /// Two junctions claim the same letters of one word.
+    #[error("word `{word}` is too short for the junctions on both its sides")]
+    Overlap {
+        /// The word.
+        word: String,
+    },
+    /// A word leaves no trace on the surface.
+    #[error("word `{word}` would vanish from the surface")]
+    NoTrace {
+        /// The word.
+        word: String,
+    },
+    /// The junction boundary falls inside a segment.
+    #[error("junction {index} ({rule}) cuts a segment of `{word}`")]
+    Segment {
+        /// Junction index.
+        index: usize,
+        /// Rule.
+        rule: String,
+        /// The word.
+        word: String,
+    },
+    /// The result differs from the input.
+    #[error("joining gives `{got}`, not `{expected}`")]
+    Mismatch {
+        /// What joining gave.
+        got: String,
+        /// The normalized input.
+        expected: String,
+    },
+}
+
+/// Applies junction instances forward to normalized words.
+pub fn apply(
+    rules: &RuleSet,
+    words: &[String],
+    instances: &[usize],
+) -> Result<String, VerifyError> {
+    if words.is_empty() || instances.len() + 1 != words.len() {
+        return Err(VerifyError::Shape {
+            parts: words.len(),
+            junctions: instances.len(),
+        });
+    }
+    let seg = &rules.segmenter;
+    let mut out = words[0].clone();
+    let mut claimed = 0usize; // chars of the current word taken by the junction before it
+    for (i, &id) in instances.iter().enumerate() {
+        let inst = &rules.instances[id];
+        let rule = rules.rules[inst.rule].name.clone();
+        let word = &words[i];
+        let next = &words[i + 1];
+        let word_len = word.chars().count();
+        let left_len = inst.left.chars().count();
+        let right_len = inst.right.chars().count();
+        if !word.ends_with(&inst.left) {
+            return Err(VerifyError::LeftEnd {
+                index: i,
+                rule,
+                word: word.clone(),
+                expected: inst.left.clone(),
+            });
+        }
+        if !next.starts_with(&inst.right) {
+            return Err(VerifyError::RightStart {
+                index: i,
+                rule,
+                word: next.clone(),
+                expected: inst.right.clone(),
+            });
+        }
+        if word_len < claimed + left_len {
+            return Err(VerifyError::Overlap { word: word.clone() });
+        }
+        if word_len == claimed + left_len && inst.surface().is_empty() {
+            return Err(VerifyError::NoTrace { word: word.clone() });
+        }
+        if !seg.is_boundary(word, word_len - left_len) || !seg.is_boundary(next, right_len) {
+            return Err(VerifyError::Segment {
+                index: i,
+                rule,
+                word: word.clone(),
+            });
+        }
+        out.truncate(out.len() - inst.left.len());
+        out.push_str(&inst.surface());
+        out.push_str(&next[inst.right.len()..]);
+        claimed = right_len;
+    }
+    Ok(out)
+}
+
+/// Checks an analysis by applying its junctions forward: the result must be
+/// the (normalized) input exactly.
+pub fn verify(rules: &RuleSet, analysis: &Analysis, input: &str) -> Result<(), VerifyError> {
+    let words: Vec<String> = analysis.parts.iter().map(|p| p.key.clone()).collect();
+    let instances: Vec<usize> = analysis.junctions.iter().map(|j| j.instance).collect();
+    let got = apply(rules, &words, &instances)?;
+    let expected = rules.normalizer.normalize(input);
+    if got == expected {
+        Ok(())
+    } else {
+        Err(VerifyError::Mismatch { got, expected })
+    }
+}
+
+/// One way of joining parts.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct Joined {
+    /// 1-based rank.
+    pub rank: usize,
+    /// The surface form.
+    pub surface: String,
+    /// Sum of the rule costs.
+    pub cost: f64,
+    /// The rule used at each junction.
+    pub junctions: Vec<JoinStep>,
+}
+
+/// The rule used at one junction of a join.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct JoinStep {
+    /// Rule name.
+    pub rule: String,
+    /// Underlying end of the left part.
+    pub left: String,
+    /// Underlying start of the right part.
+    pub right: String,
+    /// What the junction produced.
+    pub surface: String,
+    /// Boundary kind.
+    pub boundary: Separator,
+    /// Rule cost.
+    pub cost: f64,
+    /// Instance index.
+    #[serde(skip)]
+    pub instance: usize,
+}
+
+/// Every surface form the rules allow for these parts, best (cheapest) first.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct JoinResult {
+    /// The parts as given.
+    pub parts: Vec<String>,
+    /// Number of ways found.
+    pub count: usize,
+    /// Whether the list stopped at the limit.
+    pub truncated: bool,
+    /// The ways, best first.
+    pub results: Vec<Joined>,
+}
+
+/// Joins parts forward with every applicable combination of junctions.
+/// Tags for rule conditions come from the lexicon where a part is an entry.
+pub fn join(
+    rules: &RuleSet,
+    lexicon: &Lexicon,
+    parts: &[&str],
+    scope: crate::lattice::ScopeFilter,
+    limit: usize,
+) -> JoinResult {
+    let words: Vec<String> = parts
+        .iter()
+        .map(|p| rules.normalizer.normalize(p.trim()))
+        .collect();
+    let readings: Vec<Vec<Tags>> = words
+        .iter()
+        .map(|w| {
+            lexicon
+                .get(w)
+                .map(|id| lexicon.entry(id).readings.clone())
+                .unwrap_or_default()
+        })
+        .collect();
+    let holds = |conds: &[crate::rules::Condition], i: usize| {
+        conds
+            .iter()
+            .all(|c| condition_holds(c, &words[i], &readings[i]))
+    };
+    let mut result = JoinResult {
+        parts: parts.iter().map(|p| p.trim().to_string()).collect(),
+        count: 0,
+        truncated: false,
+        results: Vec::new(),
+    };
+    if words.is_empty() || words.iter().any(|w| w.is_empty()) {
+        return result;
+    }
+    if !holds(&rules.edge_start, 0) || !holds(&rules.edge_end, words.len() - 1) {
+        return result;
+    }
+    // Candidate instances at each junction.
+    let (max_l, max_r) = rules.max_ends();
+    let mut candidates: Vec<Vec<usize>> = Vec::new();
+    for i in 0..words.len().saturating_sub(1) {
+        let left: Vec<char> = words[i].chars().collect();
+        let right: Vec<char> = words[i + 1].chars().collect();
+        let mut here = Vec::new();
+        for l in 0..=max_l.min(left.len()) {
+            let suffix: String = left[left.len() - l..].iter().collect();
+            for r in 0..=max_r.min(right.len()) {
+                let prefix: String = right[..r].iter().collect();
+                for &id in rules.instances_with_ends(&suffix, &prefix) {
+                    let inst = &rules.instances[id];
+                    let rule = &rules.rules[inst.rule];
+                    if scope_allows(scope, inst.scope)
+                        && holds(&rule.left_conditions, i)
+                        && holds(&rule.right_conditions, i + 1)
+                    {
+                        here.push(id);
+                    }
+                }
+            }
+        }
+        candidates.push(here);
+    }
+    let mut chosen = Vec::new();
+    let mut found: Vec<(f64, Vec<usize>, String)> = Vec::new();
+    let cap = limit.saturating_mul(20).max(1000);
+    enumerate_joins(
+        rules,
+        &words,
+        &candidates,
+        &mut chosen,
+        &mut found,
+        cap,
+        &mut result.truncated,
+    );
+    found.sort_by(|a, b| a.0.total_cmp(&b.0).then_with(|| a.2.cmp(&b.2)));
+    result.count = found.len();
+    if found.len() > limit {
+        result.truncated = true;
+    }
+    for (rank, (cost, insts, surface)) in found.into_iter().take(limit).enumerate() {
+        let junctions = insts
+            .iter()
+            .map(|&id| {
+                let inst = &rules.instances[id];
+                let rule = &rules.rules[inst.rule];
+                JoinStep {
+                    rule: rule.name.clone(),
+                    left: inst.left.clone(),
+                    right: inst.right.clone(),
+                    surface: inst.surface(),
+                    boundary: inst.separator,
+                    cost: rule.cost,
+                    instance: id,
+                }
+            })
+            .collect();
+        result.results.push(Joined {
+            rank: rank + 1,
+            surface,
+            cost,
+            junctions,
+        });
+    }
+    result
+}
+
+fn scope_allows(filter: crate::lattice::ScopeFilter, scope: Scope) -> bool {
+    use crate::lattice::ScopeFilter::*;
+    match filter {
+        Any => true,
+        Compound => scope != Scope::Phrase,
+        Phrase => scope != Scope::Compound,
+    }
+}
+
+fn enumerate_joins(
+    rules: &RuleSet,
+    words: &[String],
+    candidates: &[Vec<usize>],
+    chosen: &mut Vec<usize>,
+    found: &mut Vec<(f64, Vec<usize>, String)>,
+    cap: usize,
+    truncated: &mut bool,
+) {
+    if found.len() >= cap {
+        *truncated = true;
+        return;
+    }
+    let i = chosen.len();
+    if i == candidates.len() {
+        if let Ok(surface) = apply(rules, words, chosen) {
+            let cost = chosen
+                .iter()
+                .map(|&id| rules.rules[rules.instances[id].rule].cost)
+                .sum();
+            found.push((cost, chosen.clone(), surface));
+        }
+        return;
+    }
+    for &id in &candidates[i] {
+        // Prune overlaps early: the word before this junction must keep its letters.
+        let inst = &rules.instances[id];
+        let claimed = if i == 0 {
+            0
+        } else {
+            rules.instances[chosen[i - 1]].right.chars().count()
+        };
+        let len = words[i].chars().count();
+        let left_len = inst.left.chars().count();
+        if len < claimed + left_len || (len == claimed + left_len && inst.surface().is_empty()) {
+            continue;
+        }
+        chosen.push(id);
+        enumerate_joins(rules, words, candidates, chosen, found, cap, truncated);
+        chosen.pop();
+    }
+}

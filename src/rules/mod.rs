@@ -1,0 +1,286 @@
+//! Rules stage: rule file text → parse tree (pest) → typed [`ast`] → named
+//! compile passes → [`RuleSet`].
+//!
+//! ```text
+//! grammars/junction.pest ─▶ parse::parse_file ─▶ ast::RuleFile
+//!     ─▶ compile: load includes → settings → resolve classes → expand rules
+//!        → check duplicates → index both ways ─▶ RuleSet
+//! ```
+
+pub mod ast;
+pub mod bundled;
+pub mod compile;
+pub mod diagnostic;
+pub mod grammar;
+pub mod parse;
+
+pub use ast::{Condition, Scope, Side};
+pub use compile::{compile, compile_named, CompileOptions};
+pub use diagnostic::{Diagnostic, Diagnostics, Location, Severity, SourceMap};
+
+use crate::normalize::{Normalizer, Segmenter};
+use std::collections::{BTreeSet, HashMap};
+
+/// A compiled rule-set: normalization, segments, classes, junction rules
+/// expanded into concrete instances, and indexes for both directions.
+#[derive(Debug, Clone)]
+pub struct RuleSet {
+    /// Name it was loaded under (bundled name or file path).
+    pub name: String,
+    /// `language` statement.
+    pub language: String,
+    /// `description` statement.
+    pub description: String,
+    /// How text is normalized.
+    pub normalizer: Normalizer,
+    /// Multi-letter segments.
+    pub segmenter: Segmenter,
+    /// Classes, after resolving references.
+    pub classes: Vec<Class>,
+    /// Junction rules.
+    pub rules: Vec<JunctionRule>,
+    /// Concrete instances of the rules (one per combination of class members).
+    pub instances: Vec<Instance>,
+    /// Open-class parts (numbers, acronyms).
+    pub patterns: Vec<Pattern>,
+    /// Conditions on the first word of every analysis.
+    pub edge_start: Vec<Condition>,
+    /// Conditions on the last word of every analysis.
+    pub edge_end: Vec<Condition>,
+    /// Every embedded example.
+    pub examples: Vec<Example>,
+    /// Declared variants and whether they are selected.
+    pub variants: Vec<Variant>,
+    /// `set` values, with defaults.
+    pub settings: Settings,
+    /// Source texts, for diagnostics.
+    pub sources: SourceMap,
+    /// Warnings found while compiling.
+    pub warnings: Vec<Diagnostic>,
+    pub(crate) surface_index: HashMap<String, Vec<usize>>,
+    pub(crate) max_surface_chars: usize,
+    pub(crate) end_index: HashMap<(String, String), Vec<usize>>,
+    pub(crate) max_left_chars: usize,
+    pub(crate) max_right_chars: usize,
+}
+
+/// A class of segments.
+#[derive(Debug, Clone)]
+pub struct Class {
+    /// Name.
+    pub name: String,
+    /// Members in order (normalized).
+    pub members: Vec<String>,
+    /// Where it is defined.
+    pub location: Location,
+}
+
+/// A junction rule.
+#[derive(Debug, Clone)]
+pub struct JunctionRule {
+    /// Name.
+    pub name: String,
+    /// Description, if given.
+    pub description: Option<String>,
+    /// The change as written in the file.
+    pub change: String,
+    /// Cost used in ranking.
+    pub cost: f64,
+    /// Declared scope (instances written with a space are always phrase scope).
+    pub scope: Scope,
+    /// Conditions on the left word.
+    pub left_conditions: Vec<Condition>,
+    /// Conditions on the right word.
+    pub right_conditions: Vec<Condition>,
+    /// `note` clauses.
+    pub notes: Vec<String>,
+    /// Where it is defined.
+    pub location: Location,
+    /// Classes the rule mentions.
+    pub classes_used: BTreeSet<String>,
+}
+
+/// How the two parts meet on the surface.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, PartialOrd, Ord, serde::Serialize)]
+#[serde(rename_all = "lowercase")]
+pub enum Separator {
+    /// Nothing printed between them.
+    None,
+    /// A printed space.
+    Space,
+    /// A printed hyphen.
+    Hyphen,
+    /// The surface belongs to both parts (a merged segment).
+    Merged,
+}
+
+impl Separator {
+    /// The printed text.
+    pub fn text(self) -> &'static str {
+        match self {
+            Separator::Space => " ",
+            Separator::Hyphen => "-",
+            _ => "",
+        }
+    }
+}
+
+/// One concrete way two words can meet.
+#[derive(Debug, Clone, PartialEq, Eq, Hash)]
+pub struct Instance {
+    /// Index of the rule in [`RuleSet::rules`].
+    pub rule: usize,
+    /// Underlying end of the left word.
+    pub left: String,
+    /// Underlying start of the right word.
+    pub right: String,
+    /// Surface before the boundary (the whole surface when merged).
+    pub surface_left: String,
+    /// How the boundary is shown.
+    pub separator: Separator,
+    /// Surface after the boundary.
+    pub surface_right: String,
+    /// Compound, phrase or both.
+    pub scope: Scope,
+}
+
+impl Instance {
+    /// The whole surface this junction produces.
+    pub fn surface(&self) -> String {
+        format!(
+            "{}{}{}",
+            self.surface_left,
+            self.separator.text(),
+            self.surface_right
+        )
+    }
+
+    /// Surface length in characters.
+    pub fn surface_chars(&self) -> usize {
+        self.surface_left.chars().count()
+            + self.separator.text().len()
+            + self.surface_right.chars().count()
+    }
+}
+
+/// An open-class part: any run of segments of a class.
+#[derive(Debug, Clone)]
+pub struct Pattern {
+    /// Name, given to the part as tag `pattern=NAME`.
+    pub name: String,
+    /// Allowed segments.
+    pub members: BTreeSet<String>,
+    /// Minimum number of characters.
+    pub min: usize,
+    /// Maximum number of characters.
+    pub max: Option<usize>,
+    /// Whether the input must show capitals.
+    pub uppercase: bool,
+    /// Tags of the part.
+    pub tags: Vec<(String, String)>,
+}
+
+/// An embedded example.
+#[derive(Debug, Clone)]
+pub struct Example {
+    /// The rule it belongs to, if written under one.
+    pub rule: Option<usize>,
+    /// Parts as written.
+    pub parts: Vec<String>,
+    /// Surface as written.
+    pub surface: String,
+    /// Where.
+    pub location: Location,
+}
+
+/// A declared variant.
+#[derive(Debug, Clone)]
+pub struct Variant {
+    /// Name.
+    pub name: String,
+    /// Description.
+    pub description: Option<String>,
+    /// Letter folded.
+    pub from: String,
+    /// Replacement.
+    pub to: String,
+    /// Whether it was selected for this compilation.
+    pub selected: bool,
+}
+
+/// How analyses are ranked.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, serde::Serialize)]
+#[serde(rename_all = "kebab-case")]
+pub enum Ranking {
+    /// Koehn & Knight (2003): geometric mean of part frequencies, minus rule costs.
+    Frequency,
+    /// Sum of part log-probabilities, minus rule costs and a cost per part.
+    Probability,
+}
+
+/// Rule-set settings (`set NAME = VALUE`).
+#[derive(Debug, Clone, PartialEq)]
+pub struct Settings {
+    /// `ranking`: frequency or probability.
+    pub ranking: Ranking,
+    /// `min-part-length`: shortest lexicon form allowed as a part of a split.
+    pub min_part_length: usize,
+    /// `max-parts`: most parts in one analysis (0: no limit).
+    pub max_parts: usize,
+    /// `part-cost`: cost added per part (probability ranking).
+    pub part_cost: f64,
+    /// `split-cost`: cost added per junction.
+    pub split_cost: f64,
+    /// `pattern-frequency`: frequency given to open-class parts.
+    pub pattern_frequency: f64,
+    /// `lexicon`: name of the bundled lexicon used by default.
+    pub lexicon: Option<String>,
+    /// `script`: the transliteration scheme the rules are written in (e.g. `iast`).
+    pub script: Option<String>,
+}
+
+impl Default for Settings {
+    fn default() -> Self {
+        Settings {
+            ranking: Ranking::Probability,
+            min_part_length: 1,
+            max_parts: 0,
+            part_cost: 1.0,
+            split_cost: 0.0,
+            pattern_frequency: 1.0,
+            lexicon: None,
+            script: None,
+        }
+    }
+}
+
+impl RuleSet {
+    /// Instances whose whole surface is exactly `surface`.
+    pub fn instances_with_surface(&self, surface: &str) -> &[usize] {
+        self.surface_index
+            .get(surface)
+            .map_or(&[], |v| v.as_slice())
+    }
+
+    /// Longest surface of any instance, in characters.
+    pub fn max_surface_chars(&self) -> usize {
+        self.max_surface_chars
+    }
+
+    /// Instances whose underlying ends are exactly `left` and `right`.
+    pub fn instances_with_ends(&self, left: &str, right: &str) -> &[usize] {
+        self.end_index
+            .get(&(left.to_string(), right.to_string()))
+            .map_or(&[], |v| v.as_slice())
+    }
+
+    /// Longest underlying left end and right start, in characters.
+    pub fn max_ends(&self) -> (usize, usize) {
+        (self.max_left_chars, self.max_right_chars)
+    }
+
+    /// A rule by name.
+    pub fn rule_by_name(&self, name: &str) -> Option<usize> {
+        self.rules.iter().position(|r| r.name == name)
+    }
+}

@@ -1,0 +1,406 @@
+//! Search stage: exact counting of analyses by dynamic programming on the
+//! lattice, and best-first enumeration of the k best analyses.
+//!
+//! Counting never enumerates paths: it sums path counts over the DAG in
+//! reverse topological order with arbitrary-precision integers.
+//!
+//! Ranking uses an exact heuristic: for every node the best score of any
+//! completion is computed first, so a best-first (A*) search pops complete
+//! analyses in score order and only ever expands partial paths that can lead
+//! to one of the k best. Nothing close to the full set of paths is built.
+//!
+//! The **frequency** model (Koehn & Knight 2003) scores an analysis of `n`
+//! parts by the geometric mean of the part frequencies, `(1/n) Σ ln f_i`, minus
+//! the costs of its junction rules. Because the mean depends on `n`, the search
+//! runs once per `n` (exactly `n` parts) and merges the results. The
+//! **probability** model scores `Σ ln p_i − Σ cost(r_j) − n · part-cost`, with
+//! `p_i` the add-one smoothed relative frequency of the part.
+
+use crate::lattice::{Edge, Lattice, Truncation};
+use crate::lexicon::Lexicon;
+use crate::rules::{Ranking, RuleSet};
+use num_bigint::BigUint;
+use num_traits::{One, Zero};
+use petgraph::graph::{EdgeIndex, NodeIndex};
+use petgraph::visit::EdgeRef;
+use petgraph::Direction;
+use std::cmp::Ordering;
+use std::collections::BinaryHeap;
+use std::rc::Rc;
+
+/// Options for ranking.
+#[derive(Debug, Clone)]
+pub struct SearchOptions {
+    /// Ranking model.
+    pub ranking: Ranking,
+    /// Most parts in one analysis (0: no limit).
+    pub max_parts: usize,
+    /// Cost per part (probability model).
+    pub part_cost: f64,
+    /// Cost per junction, added to the rule's own cost.
+    pub split_cost: f64,
+    /// Most partial paths the best-first search may pop.
+    pub max_pops: usize,
+}
+
+impl SearchOptions {
+    /// The options a rule-set's settings give.
+    pub fn from_rules(rules: &RuleSet) -> SearchOptions {
+        SearchOptions {
+            ranking: rules.settings.ranking,
+            max_parts: rules.settings.max_parts,
+            part_cost: rules.settings.part_cost,
+            split_cost: rules.settings.split_cost,
+            max_pops: 2_000_000,
+        }
+    }
+}
+
+/// A complete path through the lattice with its score.
+#[derive(Debug, Clone)]
+pub struct ScoredPath {
+    /// Edges from start to end.
+    pub edges: Vec<EdgeIndex>,
+    /// Score (higher is better).
+    pub score: f64,
+    /// Number of parts.
+    pub parts: usize,
+}
+
+/// Nodes in topological order (start first). The lattice is acyclic by
+/// construction; should that ever fail, the order is cut where the cycle is.
+fn topological(lattice: &Lattice) -> Vec<NodeIndex> {
+    match petgraph::algo::toposort(&lattice.graph, None) {
+        Ok(order) => order,
+        Err(_) => lattice.graph.node_indices().collect(),
+    }
+}
+
+/// Exact number of analyses (paths from start to end), optionally with at
+/// most `max_parts` parts.
+pub fn count(lattice: &Lattice, max_parts: usize) -> BigUint {
+    let order = topological(lattice);
+    let g = &lattice.graph;
+    if max_parts == 0 {
+        let mut counts: Vec<BigUint> = vec![BigUint::zero(); g.node_count()];
+        counts[lattice.end.index()] = BigUint::one();
+        for &u in order.iter().rev() {
+            if u == lattice.end {
+                continue;
+            }
+            let mut total = BigUint::zero();
+            for e in g.edges_directed(u, Direction::Outgoing) {
+                total += &counts[e.target().index()];
+            }
+            counts[u.index()] = total;
+        }
+        return counts[lattice.start.index()].clone();
+    }
+    let width = max_parts + 1;
+    let mut counts: Vec<Vec<BigUint>> = vec![vec![BigUint::zero(); width]; g.node_count()];
+    counts[lattice.end.index()][0] = BigUint::one();
+    for &u in order.iter().rev() {
+        if u == lattice.end {
+            continue;
+        }
+        let mut row = vec![BigUint::zero(); width];
+        for e in g.edges_directed(u, Direction::Outgoing) {
+            let v = &counts[e.target().index()];
+            match e.weight() {
+                Edge::Word(_) => {
+                    for r in 1..width {
+                        row[r] += &v[r - 1];
+                    }
+                }
+                Edge::Junction { .. } => {
+                    for r in 0..width {
+                        row[r] += &v[r];
+                    }
+                }
+            }
+        }
+        counts[u.index()] = row;
+    }
+    counts[lattice.start.index()]
+        .iter()
+        .fold(BigUint::zero(), |a, b| a + b)
+}
+
+/// How the part count constrains a search.
+#[derive(Debug, Clone, Copy)]
+enum Layering {
+    /// No constraint.
+    Free,
+    /// At most this many parts.
+    AtMost(usize),
+    /// Exactly this many parts.
+    Exactly(usize),
+}
+
+struct Weights<'a> {
+    rules: &'a RuleSet,
+    lexicon: &'a Lexicon,
+    options: &'a SearchOptions,
+    divisor: f64,
+}
+
+impl Weights<'_> {
+    fn of(&self, edge: &Edge) -> f64 {
+        match edge {
+            Edge::Word(w) => match self.options.ranking {
+                Ranking::Frequency => w.frequency.max(1.0).ln() / self.divisor,
+                Ranking::Probability => {
+                    self.lexicon.log_probability(w.frequency) - self.options.part_cost
+                }
+            },
+            Edge::Junction { instance } => {
+                let rule = &self.rules.rules[self.rules.instances[*instance].rule];
+                -(rule.cost + self.options.split_cost)
+            }
+        }
+    }
+}
+
+/// Best completion score from every node (per remaining part budget when layered).
+fn heuristic(
+    lattice: &Lattice,
+    order: &[NodeIndex],
+    weights: &Weights,
+    layering: Layering,
+) -> Vec<Vec<f64>> {
+    let g = &lattice.graph;
+    let width = match layering {
+        Layering::Free => 1,
+        Layering::AtMost(p) | Layering::Exactly(p) => p + 1,
+    };
+    let mut h = vec![vec![f64::NEG_INFINITY; width]; g.node_count()];
+    match layering {
+        Layering::Exactly(_) => h[lattice.end.index()][0] = 0.0,
+        _ => h[lattice.end.index()].iter_mut().for_each(|x| *x = 0.0),
+    }
+    for &u in order.iter().rev() {
+        if u == lattice.end {
+            continue;
+        }
+        let mut row = vec![f64::NEG_INFINITY; width];
+        for e in g.edges_directed(u, Direction::Outgoing) {
+            let w = weights.of(e.weight());
+            let v = &h[e.target().index()];
+            let is_word = matches!(e.weight(), Edge::Word(_));
+            for r in 0..width {
+                let from = match (layering, is_word) {
+                    (Layering::Free, _) => Some(0),
+                    (_, true) => r.checked_sub(1),
+                    (_, false) => Some(r),
+                };
+                if let Some(from) = from {
+                    let cand = w + v[from];
+                    if cand > row[r] {
+                        row[r] = cand;
+                    }
+                }
+            }
+        }
+        h[u.index()] = row;
+    }
+    h
+}
+
+struct PathLink {
+    edge: EdgeIndex,
+    prev: Option<Rc<PathLink>>,
+}
+
+struct Item {
+    priority: f64,
+    seq: u64,
+    g: f64,
+    node: NodeIndex,
+    budget: usize,
+    parts: usize,
+    path: Option<Rc<PathLink>>,
+}
+
+impl PartialEq for Item {
+    fn eq(&self, other: &Self) -> bool {
+        self.cmp(other) == Ordering::Equal
+    }
+}
+impl Eq for Item {}
+impl PartialOrd for Item {
+    fn partial_cmp(&self, other: &Self) -> Option<Ordering> {
+        Some(self.cmp(other))
+    }
+}
+impl Ord for Item {
+    fn cmp(&self, other: &Self) -> Ordering {
+        self.priority
+            .total_cmp(&other.priority)
+            .then_with(|| other.seq.cmp(&self.seq))
+    }
+}
+
+fn collect_path(mut link: Option<Rc<PathLink>>) -> Vec<EdgeIndex> {
+    let mut edges = Vec::new();
+    while let Some(l) = link {
+        edges.push(l.edge);
+        link = l.prev.clone();
+    }
+    edges.reverse();
+    edges
+}
+
+/// Best-first search for the `k` best paths under one layering.
+fn best_first(
+    lattice: &Lattice,
+    weights: &Weights,
+    layering: Layering,
+    k: usize,
+    max_pops: usize,
+) -> (Vec<ScoredPath>, bool) {
+    let order = topological(lattice);
+    let h = heuristic(lattice, &order, weights, layering);
+    let g = &lattice.graph;
+    let budget0 = match layering {
+        Layering::Free => 0,
+        Layering::AtMost(p) | Layering::Exactly(p) => p,
+    };
+    let hv = |node: NodeIndex, budget: usize| -> f64 {
+        match layering {
+            Layering::Free => h[node.index()][0],
+            _ => h[node.index()][budget],
+        }
+    };
+    let mut out = Vec::new();
+    let start_h = hv(lattice.start, budget0);
+    if !start_h.is_finite() || k == 0 {
+        return (out, false);
+    }
+    let mut heap = BinaryHeap::new();
+    let mut seq = 0u64;
+    heap.push(Item {
+        priority: start_h,
+        seq,
+        g: 0.0,
+        node: lattice.start,
+        budget: budget0,
+        parts: 0,
+        path: None,
+    });
+    let mut pops = 0usize;
+    while let Some(item) = heap.pop() {
+        pops += 1;
+        if pops > max_pops {
+            return (out, true);
+        }
+        if item.node == lattice.end {
+            out.push(ScoredPath {
+                edges: collect_path(item.path),
+                score: item.g,
+                parts: item.parts,
+            });
+            if out.len() >= k {
+                break;
+            }
+            continue;
+        }
+        for e in g.edges_directed(item.node, Direction::Outgoing) {
+            let is_word = matches!(e.weight(), Edge::Word(_));
+            let budget = match layering {
+                Layering::Free => 0,
+                _ if is_word => match item.budget.checked_sub(1) {
+                    Some(b) => b,
+                    None => continue,
+                },
+                _ => item.budget,
+            };
+            let rest = hv(e.target(), budget);
+            if !rest.is_finite() {
+                continue;
+            }
+            let gnew = item.g + weights.of(e.weight());
+            seq += 1;
+            heap.push(Item {
+                priority: gnew + rest,
+                seq,
+                g: gnew,
+                node: e.target(),
+                budget,
+                parts: item.parts + usize::from(is_word),
+                path: Some(Rc::new(PathLink {
+                    edge: e.id(),
+                    prev: item.path.clone(),
+                })),
+            });
+        }
+    }
+    (out, false)
+}
+
+/// Most parts on any path (for the per-`n` runs of the frequency model).
+fn max_parts_on_paths(lattice: &Lattice, order: &[NodeIndex]) -> usize {
+    let g = &lattice.graph;
+    let mut best: Vec<Option<usize>> = vec![None; g.node_count()];
+    best[lattice.end.index()] = Some(0);
+    for &u in order.iter().rev() {
+        if u == lattice.end {
+            continue;
+        }
+        let mut m: Option<usize> = None;
+        for e in g.edges_directed(u, Direction::Outgoing) {
+            if let Some(v) = best[e.target().index()] {
+                let c = v + usize::from(matches!(e.weight(), Edge::Word(_)));
+                m = Some(m.map_or(c, |x| x.max(c)));
+            }
+        }
+        best[u.index()] = m;
+    }
+    best[lattice.start.index()].unwrap_or(0)
+}
+
+/// The `k` best analyses, best first. The second value is set when the
+/// search stopped at its work limit.
+pub fn best(
+    lattice: &Lattice,
+    rules: &RuleSet,
+    lexicon: &Lexicon,
+    options: &SearchOptions,
+    k: usize,
+) -> (Vec<ScoredPath>, Option<Truncation>) {
+    let mut weights = Weights {
+        rules,
+        lexicon,
+        options,
+        divisor: 1.0,
+    };
+    match options.ranking {
+        Ranking::Probability => {
+            let layering = if options.max_parts == 0 {
+                Layering::Free
+            } else {
+                Layering::AtMost(options.max_parts)
+            };
+            let (paths, cut) = best_first(lattice, &weights, layering, k, options.max_pops);
+            (paths, cut.then_some(Truncation::SearchSize))
+        }
+        Ranking::Frequency => {
+            let order = topological(lattice);
+            let mut most = max_parts_on_paths(lattice, &order);
+            if options.max_parts > 0 {
+                most = most.min(options.max_parts);
+            }
+            let mut all = Vec::new();
+            let mut cut_any = false;
+            for n in 1..=most {
+                weights.divisor = n as f64;
+                let (paths, cut) =
+                    best_first(lattice, &weights, Layering::Exactly(n), k, options.max_pops);
+                cut_any |= cut;
+                all.extend(paths);
+            }
+            all.sort_by(|a, b| b.score.total_cmp(&a.score).then(a.parts.cmp(&b.parts)));
+            all.truncate(k);
+            (all, cut_any.then_some(Truncation::SearchSize))
+        }
+    }
+}
