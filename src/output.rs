@@ -4,7 +4,6 @@
 
 use crate::analyzer::SplitRecord;
 use crate::proof::{Analysis, JoinResult};
-use crate::rules::Separator;
 use std::fmt::Write;
 
 /// Output formats.

@@ -1,6 +1,33 @@
 //! Lexicons embedded in the binary, selectable by name.
 
-use super::{LexiconBuilder, LexiconError};
+use super::compiled::{self, IndexBytes};
+use super::{Lexicon, LexiconBuilder, LexiconError};
+
+/// (name, compiled lexicon) for bundled lexicons that ship a compiled index,
+/// built by `juncture lexicon build` from the TSV files below (a test checks
+/// that each is up to date). Loading one parses nothing.
+const COMPILED: &[(&str, &[u8])] = &[];
+
+/// The compiled form of a bundled lexicon, if it ships one built with this
+/// normalization (a variant that folds letters needs the TSV instead).
+pub fn compiled(name: &str, fingerprint: &str) -> Option<Lexicon> {
+    let (_, bytes) = COMPILED.iter().find(|(n, _)| *n == name)?;
+    compiled::load(
+        &format!("bundled:{name}"),
+        IndexBytes::embedded(bytes),
+        fingerprint,
+    )
+    .ok()
+}
+
+/// The TSV files of a bundled lexicon: (file name, text).
+pub fn sources(name: &str) -> Vec<(&'static str, &'static str)> {
+    LEXICONS
+        .iter()
+        .filter(|(n, _, _)| *n == name)
+        .map(|(_, f, t)| (*f, *t))
+        .collect()
+}
 
 /// (name, TSV text) of every bundled lexicon file. A name may have several files.
 const LEXICONS: &[(&str, &str, &str)] = &[(

@@ -10,9 +10,11 @@
 //! most frequent spelling is kept for display.
 
 pub mod bundled;
+pub mod compiled;
 
 use crate::normalize::Normalizer;
 use crate::rules::{Condition, RuleSet};
+use compiled::{IndexBytes, LazyEntries};
 use fst::raw::{CompiledAddr, Output};
 use std::collections::{BTreeMap, BTreeSet, HashMap};
 
@@ -214,8 +216,12 @@ impl LexiconBuilder {
             });
         }
         let bytes = builder.into_inner()?;
-        let index = fst::Map::new(bytes)?;
-        Ok(Lexicon::from_parts(index, entries))
+        let index = fst::Map::new(IndexBytes::owned(bytes))?;
+        Ok(Lexicon::from_parts(
+            index,
+            entries,
+            normalizer_fingerprint(&self.normalizer),
+        ))
     }
 }
 
@@ -275,10 +281,29 @@ pub fn parse_tags(text: &str) -> Result<Tags, String> {
 /// A compiled lexicon: entries plus an FST from normalized form to entry.
 #[derive(Debug, Clone)]
 pub struct Lexicon {
-    index: fst::Map<Vec<u8>>,
-    entries: Vec<Entry>,
+    index: fst::Map<IndexBytes>,
+    store: Store,
     total_frequency: f64,
     tag_keys: BTreeSet<String>,
+    fingerprint: String,
+}
+
+#[derive(Debug, Clone)]
+enum Store {
+    Owned(Vec<Entry>),
+    Lazy(LazyEntries),
+}
+
+/// A short description of a normalization, stored in compiled lexicons so a
+/// file built for another normalization is refused.
+pub fn normalizer_fingerprint(n: &Normalizer) -> String {
+    let folds: Vec<String> = n.folds.iter().map(|(a, b)| format!("{a}={b}")).collect();
+    format!(
+        "{:?};fold-case={};folds=[{}]",
+        n.form,
+        n.fold_case,
+        folds.join(",")
+    )
 }
 
 /// A position in the lexicon index: the entries that start with what has been
@@ -290,7 +315,11 @@ pub struct Cursor {
 }
 
 impl Lexicon {
-    fn from_parts(index: fst::Map<Vec<u8>>, entries: Vec<Entry>) -> Lexicon {
+    fn from_parts(
+        index: fst::Map<IndexBytes>,
+        entries: Vec<Entry>,
+        fingerprint: String,
+    ) -> Lexicon {
         let total_frequency = entries.iter().map(|e| e.frequency).sum::<f64>().max(1.0);
         let tag_keys = entries
             .iter()
@@ -298,27 +327,66 @@ impl Lexicon {
             .collect();
         Lexicon {
             index,
-            entries,
+            store: Store::Owned(entries),
             total_frequency,
             tag_keys,
+            fingerprint,
         }
+    }
+
+    fn from_compiled(
+        index: fst::Map<IndexBytes>,
+        entries: LazyEntries,
+        total_frequency: f64,
+        tag_keys: BTreeSet<String>,
+        fingerprint: String,
+    ) -> Lexicon {
+        Lexicon {
+            index,
+            store: Store::Lazy(entries),
+            total_frequency,
+            tag_keys,
+            fingerprint,
+        }
+    }
+
+    /// The raw bytes of the FST index.
+    pub fn fst_bytes(&self) -> &[u8] {
+        self.index.as_fst().as_bytes()
+    }
+
+    /// The normalization this lexicon was built with.
+    pub fn fingerprint(&self) -> &str {
+        &self.fingerprint
+    }
+
+    /// Writes the lexicon in the compiled format (see [`compiled`]).
+    pub fn to_compiled(&self, sources: &[String]) -> Vec<u8> {
+        compiled::write(self, sources)
     }
 
     /// An empty lexicon.
     pub fn empty() -> Lexicon {
-        let index = fst::Map::from_iter(std::iter::empty::<(&[u8], u64)>())
-            .expect("an empty map always builds");
-        Lexicon::from_parts(index, Vec::new())
+        let bytes = fst::MapBuilder::memory().into_inner().unwrap_or_default();
+        let index = fst::Map::new(IndexBytes::owned(bytes)).expect("an empty map always loads");
+        Lexicon::from_parts(
+            index,
+            Vec::new(),
+            normalizer_fingerprint(&Normalizer::default()),
+        )
     }
 
     /// Number of entries.
     pub fn len(&self) -> usize {
-        self.entries.len()
+        match &self.store {
+            Store::Owned(v) => v.len(),
+            Store::Lazy(l) => l.len(),
+        }
     }
 
     /// Whether there are no entries.
     pub fn is_empty(&self) -> bool {
-        self.entries.is_empty()
+        self.len() == 0
     }
 
     /// Sum of all frequencies.
@@ -332,13 +400,16 @@ impl Lexicon {
     }
 
     /// All entries, in key order.
-    pub fn entries(&self) -> &[Entry] {
-        &self.entries
+    pub fn entries(&self) -> impl Iterator<Item = &Entry> + '_ {
+        (0..self.len()).map(move |i| self.entry(i))
     }
 
     /// Entry by index.
     pub fn entry(&self, id: usize) -> &Entry {
-        &self.entries[id]
+        match &self.store {
+            Store::Owned(v) => &v[id],
+            Store::Lazy(l) => l.get(id),
+        }
     }
 
     /// Looks up a normalized key.
@@ -388,27 +459,54 @@ impl Lexicon {
 
     /// Whether a condition holds for an entry.
     pub fn holds(&self, id: usize, condition: &Condition) -> bool {
-        let e = &self.entries[id];
+        let e = self.entry(id);
         condition_holds(condition, &e.key, &e.readings)
     }
 
     /// Log-probability of an entry's frequency, add-one smoothed over the lexicon.
     pub fn log_probability(&self, frequency: f64) -> f64 {
-        ((frequency + 1.0) / (self.total_frequency + self.entries.len() as f64 + 1.0)).ln()
+        ((frequency + 1.0) / (self.total_frequency + self.len() as f64 + 1.0)).ln()
     }
 
-    /// Loads the lexicon a rule-set names (`set lexicon = NAME`) plus extra files.
+    /// Loads the lexicon a rule-set names (`set lexicon = NAME`) plus extra
+    /// files (TSV or compiled). With only the bundled lexicon, or only one
+    /// compiled file, nothing is parsed: the compiled index is used directly.
     pub fn for_rules(
         rules: &RuleSet,
         extra: &[std::path::PathBuf],
         include_default: bool,
         strict: bool,
     ) -> Result<(Lexicon, Vec<LexiconIssue>), LexiconError> {
-        let mut builder = LexiconBuilder::new(&rules.normalizer).strict(strict);
-        if include_default {
-            if let Some(name) = &rules.settings.lexicon {
-                bundled::add_bundled(&mut builder, name)?;
+        let fingerprint = normalizer_fingerprint(&rules.normalizer);
+        let default = if include_default {
+            rules.settings.lexicon.as_deref()
+        } else {
+            None
+        };
+        if extra.is_empty() {
+            if let Some(name) = default {
+                if let Some(lex) = bundled::compiled(name, &fingerprint) {
+                    return Ok((lex, Vec::new()));
+                }
             }
+        }
+        if default.is_none() && extra.len() == 1 {
+            let path = &extra[0];
+            let name = path.display().to_string();
+            let bytes = std::fs::read(path).map_err(|source| LexiconError::Io {
+                file: name.clone(),
+                source,
+            })?;
+            if compiled::is_compiled(&bytes) {
+                return Ok((
+                    compiled::load(&name, IndexBytes::owned(bytes), &fingerprint)?,
+                    Vec::new(),
+                ));
+            }
+        }
+        let mut builder = LexiconBuilder::new(&rules.normalizer).strict(strict);
+        if let Some(name) = default {
+            bundled::add_bundled(&mut builder, name)?;
         }
         for path in extra {
             builder.add_tsv_file(path)?;
