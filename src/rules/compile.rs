@@ -43,12 +43,14 @@ pub fn compile_named(name_or_path: &str, options: &CompileOptions) -> Result<Rul
             Ok(text) => compile(name_or_path, &text, path.parent(), options),
             Err(e) => Err(Diagnostics(vec![Diagnostic::error(
                 "not-utf8",
-                format!(
-                    "{name_or_path}: the rule file is not UTF-8 (bad byte at offset {})",
-                    e.utf8_error().valid_up_to()
-                ),
-                None,
-            )])),
+                "the rule file is not UTF-8",
+                Some(bad_byte_location(
+                    name_or_path,
+                    e.as_bytes(),
+                    e.utf8_error().valid_up_to(),
+                )),
+            )
+            .with_hint("save the file as UTF-8")])),
         },
         Err(e) => Err(Diagnostics(vec![Diagnostic::error(
             "no-rule-set",
@@ -59,6 +61,30 @@ pub fn compile_named(name_or_path: &str, options: &CompileOptions) -> Result<Rul
             "bundled rule-sets: {}",
             bundled::names().join(", ")
         ))])),
+    }
+}
+
+/// The place of the first byte that is not UTF-8, as `file:line:column`.
+fn bad_byte_location(file: &str, bytes: &[u8], at: usize) -> Location {
+    let line_start = bytes[..at]
+        .iter()
+        .rposition(|&b| b == b'\n')
+        .map_or(0, |i| i + 1);
+    let line_end = bytes[at..]
+        .iter()
+        .position(|&b| b == b'\n')
+        .map_or(bytes.len(), |i| at + i);
+    Location {
+        file: file.to_string(),
+        line: bytes[..at].iter().filter(|&&b| b == b'\n').count() + 1,
+        column: String::from_utf8_lossy(&bytes[line_start..at])
+            .chars()
+            .count()
+            + 1,
+        source_line: String::from_utf8_lossy(&bytes[line_start..line_end])
+            .trim_end_matches('\r')
+            .to_string(),
+        width: 1,
     }
 }
 
@@ -232,7 +258,8 @@ fn load_one(
                 continue;
             }
         };
-        if stack.contains(&inc_name) {
+        let identity = file_identity(&inc_name);
+        if stack.iter().any(|s| file_identity(s) == identity) {
             let chain = stack
                 .iter()
                 .chain(std::iter::once(&inc_name))
@@ -256,7 +283,7 @@ fn load_one(
             );
             continue;
         }
-        if !seen.insert(inc_name.clone()) {
+        if !seen.insert(identity) {
             // Already included through another path: its definitions are in.
             continue;
         }
@@ -264,6 +291,35 @@ fn load_one(
         load_one(cx, &inc_name, &inc_text, inc_base, stack, out, seen);
         stack.pop();
     }
+}
+
+/// What identifies a rule file for finding circular and repeated includes:
+/// its canonical path when it is a file on disk (so `sub/../a.jr`, `./a.jr`
+/// and `a.jr` are one file), else its name (`bundled:NAME`).
+fn file_identity(name: &str) -> String {
+    if name.starts_with("bundled:") {
+        return name.to_string();
+    }
+    std::fs::canonicalize(name).map_or_else(|_| name.to_string(), |p| p.display().to_string())
+}
+
+/// `a/./b/../c.jr` → `a/c.jr`, without touching the file system (for the
+/// names shown in diagnostics).
+fn clean_path(path: &Path) -> PathBuf {
+    use std::path::Component;
+    let mut out = PathBuf::new();
+    for c in path.components() {
+        match c {
+            Component::CurDir => {}
+            Component::ParentDir
+                if matches!(out.components().next_back(), Some(Component::Normal(_))) =>
+            {
+                out.pop();
+            }
+            other => out.push(other.as_os_str()),
+        }
+    }
+    out
 }
 
 fn resolve_include(
@@ -275,7 +331,7 @@ fn resolve_include(
             if candidate.is_file() {
                 let text = std::fs::read_to_string(&candidate).map_err(|e| e.to_string())?;
                 return Ok((
-                    candidate.display().to_string(),
+                    clean_path(&candidate).display().to_string(),
                     text,
                     candidate.parent().map(Path::to_path_buf),
                 ));
@@ -491,7 +547,14 @@ fn apply_setting(cx: &mut Context, settings: &mut Settings, s: &SetDecl) {
             "unknown-setting",
             format!("unknown setting `{name}`"),
             s.name.span,
-            Some(format!("settings: {}", SETTINGS.join(", "))),
+            Some(
+                match SETTINGS.iter().find(|k| edit_distance(k, name) <= 2) {
+                    Some(close) => {
+                        format!("did you mean `{close}`? settings: {}", SETTINGS.join(", "))
+                    }
+                    None => format!("settings: {}", SETTINGS.join(", ")),
+                },
+            ),
         ),
     }
 }
