@@ -25,6 +25,8 @@
 #![deny(missing_docs)]
 
 pub mod analyzer;
+pub mod check;
+pub mod explain;
 pub mod lattice;
 pub mod lexicon;
 pub mod normalize;

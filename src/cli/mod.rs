@@ -1,5 +1,6 @@
 //! Command-line definition and glue. One file per subcommand.
 
+mod check;
 mod common;
 mod join;
 mod rules_cmd;
@@ -45,6 +46,8 @@ enum Command {
     Join(join::JoinArgs),
     /// List the bundled rule-sets, or print one.
     Rules(rules_cmd::RulesArgs),
+    /// Check a rule-set: compile, lint, and verify its examples both ways.
+    Check(check::CheckArgs),
 }
 
 /// Parses the command line and runs it; returns the exit status.
@@ -61,6 +64,7 @@ pub fn run() -> i32 {
         Command::Split(args) => split::run(args),
         Command::Join(args) => join::run(args),
         Command::Rules(args) => rules_cmd::run(args),
+        Command::Check(args) => check::run(args),
     };
     match result {
         Ok(code) => code,
