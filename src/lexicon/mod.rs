@@ -617,3 +617,41 @@ mod tests {
         assert_eq!(b.issues()[0].line, 2);
     }
 }
+
+impl Lexicon {
+    /// The bare-scan baseline: the number of (position, entry) pairs where a
+    /// lexicon entry occurs in `chars`, found by walking the index from every
+    /// position, with no junction rules. Benchmarks compare full analysis
+    /// against it.
+    pub fn bare_scan(&self, chars: &[char]) -> usize {
+        let mut found = 0;
+        for start in 0..chars.len() {
+            let mut cursor = self.root();
+            for &c in &chars[start..] {
+                match self.step_char(cursor, c) {
+                    Some(next) => cursor = next,
+                    None => break,
+                }
+                if self.entry_at(cursor).is_some() {
+                    found += 1;
+                }
+            }
+        }
+        found
+    }
+}
+
+#[cfg(test)]
+mod bare_scan_tests {
+    use super::*;
+
+    #[test]
+    fn counts_every_occurrence() {
+        let mut b = LexiconBuilder::new(&Normalizer::default());
+        b.add_tsv("t", b"arbeit\namt\narbeitsamt\nts\n").unwrap();
+        let lex = b.build().unwrap();
+        let chars: Vec<char> = "arbeitsamt".chars().collect();
+        // arbeit, arbeitsamt (at 0), ts (at 5), amt (at 7)
+        assert_eq!(lex.bare_scan(&chars), 4);
+    }
+}
