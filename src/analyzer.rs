@@ -195,3 +195,226 @@ impl<'a> Analyzer<'a> {
         }
     }
 }
+
+/// Why a token is passed through unsplit (for indexing: `split --format terms`
+/// and `--passthrough`).
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
+#[serde(rename_all = "kebab-case")]
+pub enum Passthrough {
+    /// Digits, optionally with a sign, decimal or group separators, or a
+    /// trailing `%` (`2024`, `-3,5`, `1.000.000`, `12:30`, `50%`).
+    Number,
+    /// Starts with a URL scheme (`https://`, `ftp://`, `mailto:`) or `www.`.
+    Url,
+    /// `local@domain.tld`.
+    Email,
+    /// Letters of more than one script (e.g. Latin and Cyrillic).
+    MixedScript,
+    /// Longer than the token-length limit.
+    TooLong,
+}
+
+impl Passthrough {
+    /// The reason in words.
+    pub fn describe(self) -> &'static str {
+        match self {
+            Passthrough::Number => "a number",
+            Passthrough::Url => "a URL",
+            Passthrough::Email => "an e-mail address",
+            Passthrough::MixedScript => "letters of more than one script",
+            Passthrough::TooLong => "longer than the token-length limit",
+        }
+    }
+}
+
+/// The reason a token is not analysed but passed through as it is, if any.
+/// `max_chars` is the token-length limit in characters.
+pub fn passthrough(token: &str, max_chars: usize) -> Option<Passthrough> {
+    let t = token.trim();
+    if t.chars().count() > max_chars {
+        return Some(Passthrough::TooLong);
+    }
+    if is_url(t) {
+        return Some(Passthrough::Url);
+    }
+    if is_email(t) {
+        return Some(Passthrough::Email);
+    }
+    if is_number(t) {
+        return Some(Passthrough::Number);
+    }
+    if is_mixed_script(t) {
+        return Some(Passthrough::MixedScript);
+    }
+    None
+}
+
+fn is_number(t: &str) -> bool {
+    let body = t.strip_prefix(['-', '+', '−']).unwrap_or(t);
+    let body = body.strip_suffix('%').unwrap_or(body);
+    let mut digits = 0usize;
+    let mut prev_sep = true;
+    for c in body.chars() {
+        if c.is_numeric() {
+            digits += 1;
+            prev_sep = false;
+        } else if matches!(c, '.' | ',' | ':' | '\'' | '\u{202F}' | '\u{00A0}') && !prev_sep {
+            prev_sep = true;
+        } else {
+            return false;
+        }
+    }
+    digits > 0 && !prev_sep
+}
+
+fn is_url(t: &str) -> bool {
+    let lower = t.to_lowercase();
+    if lower.starts_with("www.") && lower.len() > 4 {
+        return true;
+    }
+    if lower.starts_with("mailto:") {
+        return true;
+    }
+    match lower.find("://") {
+        Some(i) if i > 0 => {
+            lower[..i]
+                .chars()
+                .all(|c| c.is_ascii_alphanumeric() || matches!(c, '+' | '-' | '.'))
+                && lower[..i].starts_with(|c: char| c.is_ascii_alphabetic())
+                && lower.len() > i + 3
+        }
+        _ => false,
+    }
+}
+
+fn is_email(t: &str) -> bool {
+    let Some((local, domain)) = t.split_once('@') else {
+        return false;
+    };
+    let local_ok = !local.is_empty()
+        && local
+            .chars()
+            .all(|c| c.is_alphanumeric() || "._%+-!#$&'*/=?^`{|}~".contains(c));
+    let labels: Vec<&str> = domain.split('.').collect();
+    let domain_ok = labels.len() >= 2
+        && labels.iter().all(|l| {
+            !l.is_empty()
+                && !l.starts_with('-')
+                && !l.ends_with('-')
+                && l.chars().all(|c| c.is_alphanumeric() || c == '-')
+        })
+        && labels
+            .last()
+            .is_some_and(|tld| tld.chars().count() >= 2 && tld.chars().all(char::is_alphabetic));
+    local_ok && domain_ok
+}
+
+/// The script of a letter, by Unicode block ranges (enough to tell the
+/// scripts of European and Indic text apart); `None` for characters that
+/// belong to no script in particular (digits, punctuation, combining marks).
+fn script_of(c: char) -> Option<&'static str> {
+    if !c.is_alphabetic() {
+        return None;
+    }
+    let u = c as u32;
+    Some(match u {
+        0x0300..=0x036F | 0x1AB0..=0x1AFF | 0x1DC0..=0x1DFF | 0x20D0..=0x20FF => return None,
+        0x0041..=0x024F | 0x0250..=0x02AF | 0x1D00..=0x1DBF | 0x1E00..=0x1EFF => "latin",
+        0x2C60..=0x2C7F | 0xA720..=0xA7FF | 0xAB30..=0xAB6F | 0xFF21..=0xFF5A => "latin",
+        0x02B0..=0x02FF => return None,
+        0x0370..=0x03FF | 0x1F00..=0x1FFF => "greek",
+        0x0400..=0x052F | 0x1C80..=0x1C8F | 0x2DE0..=0x2DFF | 0xA640..=0xA69F => "cyrillic",
+        0x0530..=0x058F => "armenian",
+        0x0590..=0x05FF => "hebrew",
+        0x0600..=0x06FF | 0x0750..=0x077F | 0x08A0..=0x08FF => "arabic",
+        0x0900..=0x097F | 0xA8E0..=0xA8FF => "devanagari",
+        0x0980..=0x09FF => "bengali",
+        0x0A00..=0x0DFF => "indic",
+        0x0E00..=0x0E7F => "thai",
+        0x10A0..=0x10FF => "georgian",
+        0x1100..=0x11FF | 0xAC00..=0xD7AF | 0x3130..=0x318F => "hangul",
+        0x3040..=0x309F => "hiragana",
+        0x30A0..=0x30FF => "katakana",
+        0x3400..=0x4DBF | 0x4E00..=0x9FFF | 0xF900..=0xFAFF | 0x20000..=0x2FFFF => "han",
+        _ => "other",
+    })
+}
+
+fn is_mixed_script(t: &str) -> bool {
+    let mut first: Option<&str> = None;
+    for c in t.chars() {
+        if let Some(s) = script_of(c) {
+            match first {
+                None => first = Some(s),
+                Some(f) if f != s => {
+                    // Japanese mixes kana and kanji in one word.
+                    let japanese = |x: &str| matches!(x, "han" | "hiragana" | "katakana");
+                    if !(japanese(f) && japanese(s)) {
+                        return true;
+                    }
+                }
+                Some(_) => {}
+            }
+        }
+    }
+    false
+}
+
+/// A split record together with the reason the token was passed through, if
+/// it was (then it has no analyses and is not a failure).
+#[derive(Debug, Clone, Serialize)]
+pub struct TokenRecord {
+    /// The record (empty for a passed-through token).
+    #[serde(flatten)]
+    pub record: SplitRecord,
+    /// Why the token was not analysed.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub passthrough: Option<Passthrough>,
+}
+
+impl TokenRecord {
+    /// Whether the token counts as not analysed (for the exit status); a
+    /// passed-through token does not.
+    pub fn is_failure(&self) -> bool {
+        self.passthrough.is_none() && self.record.is_failure()
+    }
+}
+
+impl Analyzer<'_> {
+    /// Like [`split`](Self::split), but a token that is a number, URL,
+    /// e-mail address, of mixed scripts or longer than `max_token_chars` is
+    /// passed through without analysis.
+    pub fn split_token(&self, token: &str, top: usize, max_token_chars: usize) -> TokenRecord {
+        match passthrough(token, max_token_chars) {
+            Some(reason) => TokenRecord {
+                record: SplitRecord {
+                    input: token.to_string(),
+                    count: Count(BigUint::default()),
+                    truncated: false,
+                    reason: None,
+                    analyses: Vec::new(),
+                    error: None,
+                },
+                passthrough: Some(reason),
+            },
+            None => TokenRecord {
+                record: self.split(token, top),
+                passthrough: None,
+            },
+        }
+    }
+}
+
+/// The tokens of a line of running text, for indexing: pieces between
+/// whitespace, with punctuation around them removed (quotes, brackets,
+/// `.,;:!?…`); hyphens, `%`, `@` and `/` are kept. Empty pieces are dropped.
+pub fn index_tokens(line: &str) -> Vec<&str> {
+    const TRIM: &[char] = &[
+        '"', '\'', '(', ')', '[', ']', '{', '}', '<', '>', '«', '»', '„', '“', '”', '‚', '‘',
+        '’', '‹', '›', ',', ';', ':', '!', '?', '.', '…', '¡', '¿', '*',
+    ];
+    line.split_whitespace()
+        .map(|t| t.trim_matches(TRIM))
+        .filter(|t| !t.is_empty())
+        .collect()
+}

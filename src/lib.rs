@@ -26,6 +26,7 @@
 
 pub mod analyzer;
 pub mod check;
+pub mod eval;
 pub mod explain;
 pub mod lattice;
 pub mod lexicon;

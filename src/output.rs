@@ -171,3 +171,101 @@ pub fn yaml_item<T: serde::Serialize>(value: &T) -> String {
     }
     out
 }
+
+/// Options of the `terms` rendering (index terms of a split).
+#[derive(Debug, Clone, PartialEq)]
+pub struct TermsOptions {
+    /// Lowercase every term (and the original).
+    pub lowercase: bool,
+    /// Parts shorter than this many characters are not listed as terms (the
+    /// original is always listed when kept).
+    pub min_term_length: usize,
+    /// List the token itself first. A token that is not split is always
+    /// listed (it is its own only term).
+    pub keep_original: bool,
+    /// Only the best analysis gives terms; otherwise every listed analysis
+    /// whose score is within `margin` of the best one does.
+    pub best_only: bool,
+    /// How far below the best score a reading may be and still give terms.
+    pub margin: f64,
+}
+
+impl Default for TermsOptions {
+    fn default() -> Self {
+        TermsOptions {
+            lowercase: false,
+            min_term_length: 1,
+            keep_original: true,
+            best_only: false,
+            margin: 1.0,
+        }
+    }
+}
+
+/// The index terms of one token: the token itself (unless `keep_original`
+/// is off and it was split), then the lexicon forms of the parts of the
+/// chosen readings (linking elements removed, elided letters restored), in
+/// order of first appearance, without repeats. A passed-through or
+/// unanalysed token gives itself.
+pub fn terms(r: &crate::analyzer::TokenRecord, o: &TermsOptions) -> Vec<String> {
+    let case = |s: &str| {
+        if o.lowercase {
+            s.to_lowercase()
+        } else {
+            s.to_string()
+        }
+    };
+    let token = case(r.record.input.trim());
+    let mut out: Vec<String> = Vec::new();
+    let push = |t: String, out: &mut Vec<String>| {
+        if !t.is_empty() && !out.contains(&t) {
+            out.push(t);
+        }
+    };
+    let analyses = &r.record.analyses;
+    let Some(best) = analyses.first().filter(|_| r.passthrough.is_none()) else {
+        push(token, &mut out);
+        return out;
+    };
+    let chosen: Vec<&Analysis> = if o.best_only {
+        vec![best]
+    } else {
+        analyses
+            .iter()
+            .filter(|a| a.score >= best.score - o.margin)
+            .collect()
+    };
+    let split = chosen.iter().any(|a| a.parts.len() > 1);
+    if o.keep_original || !split {
+        push(token.clone(), &mut out);
+    }
+    for a in chosen {
+        if a.parts.len() < 2 {
+            continue;
+        }
+        for p in &a.parts {
+            if p.form.chars().count() >= o.min_term_length {
+                push(case(&p.form), &mut out);
+            }
+        }
+    }
+    if out.is_empty() {
+        push(token, &mut out);
+    }
+    out
+}
+
+/// One token in the `terms` format: the token as given, a tab, and its index
+/// terms separated by single spaces (see [`terms`]).
+pub fn split_terms(r: &crate::analyzer::TokenRecord, o: &TermsOptions) -> String {
+    let clean = |s: &str| s.replace(['\t', '\n', '\r'], " ");
+    format!(
+        "{}\t{}\n",
+        clean(r.record.input.trim()),
+        terms(r, o)
+            .iter()
+            .map(|t| clean(t))
+            .collect::<Vec<_>>()
+            .join(" ")
+    )
+}

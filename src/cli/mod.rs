@@ -2,6 +2,7 @@
 
 mod check;
 mod common;
+mod eval;
 mod join;
 mod rules_cmd;
 mod split;
@@ -48,6 +49,8 @@ enum Command {
     Rules(rules_cmd::RulesArgs),
     /// Check a rule-set: compile, lint, and verify its examples both ways.
     Check(check::CheckArgs),
+    /// Score splits against a gold file.
+    Eval(eval::EvalArgs),
 }
 
 /// Parses the command line and runs it; returns the exit status.
@@ -65,6 +68,7 @@ pub fn run() -> i32 {
         Command::Join(args) => join::run(args),
         Command::Rules(args) => rules_cmd::run(args),
         Command::Check(args) => check::run(args),
+        Command::Eval(args) => eval::run(args),
     };
     match result {
         Ok(code) => code,

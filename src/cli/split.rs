@@ -2,9 +2,9 @@
 
 use super::common::{for_each_input, Failure, FormatArg, RecordWriter, ScopeArg, Source};
 use super::{EXIT_OK, EXIT_SOME_FAILED};
-use clap::Args;
-use juncture::analyzer::{Analyzer, SplitRecord};
-use juncture::output;
+use clap::{Args, ValueEnum};
+use juncture::analyzer::{index_tokens, Analyzer, SplitRecord, TokenRecord};
+use juncture::output::{self, Format, TermsOptions};
 use std::time::Duration;
 
 /// Split words or lines into their parts.
@@ -13,6 +13,24 @@ use std::time::Duration;
 /// its own: the exact number of analyses, then the best ones, each with its
 /// proof chain (which rule joined which parts, and where). Output line order
 /// follows input order and is flushed as it goes.
+///
+/// `--format terms` is for indexing: each line is cut into tokens at
+/// whitespace (punctuation around a token is dropped) and every token gives
+/// one output line, `TOKEN<TAB>TERM TERM …`: the token as written, then its
+/// index terms separated by spaces: the token itself (unless
+/// `--no-original` and it was split), then the lexicon forms of its parts
+/// (linking elements removed, elided letters restored), from the best
+/// analysis and from every other of the top `-k` analyses whose score is
+/// within `--term-margin` of it (ambiguous compounds keep all readings), or
+/// from the best one only with `--best-only`; each term once, in order of
+/// first appearance. Example: `Arbeitsamt<TAB>Arbeitsamt Arbeit Amt`.
+///
+/// Pass-through: with `--format terms` (or `--passthrough` for the other
+/// formats) a token that is a number, a URL, an e-mail address, mixes
+/// scripts (e.g. Latin and Cyrillic letters) or is longer than
+/// `--max-token-chars` is not analysed; it is its own only term, and the
+/// JSON formats give the reason in a `passthrough` field (`number`, `url`,
+/// `email`, `mixed-script`, `too-long`). Such a token is not a failure.
 #[derive(Args, Debug)]
 pub struct SplitArgs {
     /// Words or lines to split; read from standard input when none are given.
@@ -29,8 +47,36 @@ pub struct SplitArgs {
     #[arg(long, default_value_t = 1000, value_name = "N")]
     pub limit: usize,
     /// Output format.
-    #[arg(long, short = 'f', value_enum, default_value_t = FormatArg::Text)]
-    pub format: FormatArg,
+    #[arg(long, short = 'f', value_enum, default_value_t = SplitFormat::Text)]
+    pub format: SplitFormat,
+    /// terms: lowercase the token and its terms.
+    #[arg(long)]
+    pub lowercase: bool,
+    /// terms: leave out parts shorter than N characters.
+    #[arg(long, default_value_t = 1, value_name = "N")]
+    pub min_term_length: usize,
+    /// terms: list the token itself first (the default).
+    #[arg(long, overrides_with = "no_original")]
+    pub keep_original: bool,
+    /// terms: do not list the token itself when it was split.
+    #[arg(long, overrides_with = "keep_original")]
+    pub no_original: bool,
+    /// terms: only the best analysis gives terms.
+    #[arg(long)]
+    pub best_only: bool,
+    /// terms: readings scoring at most this much below the best also give terms.
+    #[arg(long, default_value_t = 1.0, value_name = "SCORE")]
+    pub term_margin: f64,
+    /// Pass numbers, URLs, e-mail addresses, mixed-script and over-long tokens
+    /// through unanalysed (always on with --format terms).
+    #[arg(long, overrides_with = "no_passthrough")]
+    pub passthrough: bool,
+    /// Analyse every token, even numbers, URLs and the like.
+    #[arg(long, overrides_with = "passthrough")]
+    pub no_passthrough: bool,
+    /// Longest token analysed with pass-through on, in characters.
+    #[arg(long, default_value_t = 80, value_name = "N")]
+    pub max_token_chars: usize,
     /// Which junctions may be used: inside compounds, between words, or both.
     #[arg(long, value_enum, default_value_t = ScopeArg::Any)]
     pub scope: ScopeArg,
@@ -67,7 +113,10 @@ pub fn run(args: SplitArgs) -> Result<i32, Failure> {
     }
     analyzer.timeout = (args.timeout > 0).then(|| Duration::from_millis(args.timeout));
     let k = if args.all { args.limit } else { args.top };
-    let mut writer = RecordWriter::new(args.format.into());
+    if args.format == SplitFormat::Terms || args.passthrough {
+        return run_tokens(&args, &analyzer, k);
+    }
+    let mut writer = RecordWriter::new(args.format.format());
     let mut failed = 0usize;
     for_each_input(&args.words, |line| {
         let record = match line {
@@ -86,6 +135,119 @@ pub fn run(args: SplitArgs) -> Result<i32, Failure> {
     })?;
     writer.finish()?;
     Ok(if failed > 0 {
+        EXIT_SOME_FAILED
+    } else {
+        EXIT_OK
+    })
+}
+
+/// Output format of `split`: the common ones plus `terms`.
+#[derive(ValueEnum, Debug, Clone, Copy, PartialEq, Eq)]
+pub enum SplitFormat {
+    /// Readable proof chains.
+    Text,
+    /// One JSON object per input line.
+    Jsonl,
+    /// One JSON array.
+    Json,
+    /// One YAML sequence.
+    Yaml,
+    /// One tab-separated line per input.
+    Tsv,
+    /// Index terms: one line per token, `TOKEN<TAB>TERM TERM …`.
+    Terms,
+}
+
+impl SplitFormat {
+    fn format(self) -> Format {
+        match self {
+            SplitFormat::Text => FormatArg::Text.into(),
+            SplitFormat::Jsonl => FormatArg::Jsonl.into(),
+            SplitFormat::Json => FormatArg::Json.into(),
+            SplitFormat::Yaml => FormatArg::Yaml.into(),
+            SplitFormat::Tsv => FormatArg::Tsv.into(),
+            // Written through the text slot of the record writer.
+            SplitFormat::Terms => Format::Text,
+        }
+    }
+}
+
+/// Token-wise splitting with pass-through: `--format terms`, or any format
+/// with `--passthrough`.
+fn run_tokens(args: &SplitArgs, analyzer: &Analyzer, k: usize) -> Result<i32, Failure> {
+    let terms = args.format == SplitFormat::Terms;
+    let passthrough = !args.no_passthrough;
+    let options = TermsOptions {
+        lowercase: args.lowercase,
+        min_term_length: args.min_term_length,
+        keep_original: !args.no_original,
+        best_only: args.best_only,
+        margin: args.term_margin,
+    };
+    let max_token = if passthrough {
+        args.max_token_chars
+    } else {
+        usize::MAX
+    };
+    let mut writer = RecordWriter::new(args.format.format());
+    let failed = std::cell::Cell::new(0usize);
+    let one = |token: &str, writer: &mut RecordWriter| -> Result<(), Failure> {
+        let record = if args.greedy {
+            TokenRecord {
+                record: analyzer.split_greedy(token),
+                passthrough: None,
+            }
+        } else {
+            analyzer.split_token(token, k, max_token)
+        };
+        if record.is_failure() {
+            failed.set(failed.get() + 1);
+        }
+        writer.write(
+            &record,
+            || {
+                if terms {
+                    output::split_terms(&record, &options)
+                } else {
+                    let mut text = output::split_text(&record.record);
+                    if let Some(p) = record.passthrough {
+                        text.push_str(&format!("  passed through: {}\n", p.describe()));
+                    }
+                    text
+                }
+            },
+            || output::split_tsv(&record.record),
+        )
+    };
+    for_each_input(&args.words, |line| match line {
+        Ok(text) if terms => {
+            for token in index_tokens(&text) {
+                one(token, &mut writer)?;
+            }
+            Ok(())
+        }
+        Ok(text) => one(&text, &mut writer),
+        Err(why) => {
+            let record = TokenRecord {
+                record: SplitRecord::failed("", why.to_string()),
+                passthrough: None,
+            };
+            failed.set(failed.get() + 1);
+            writer.write(
+                &record,
+                || {
+                    if terms {
+                        String::new()
+                    } else {
+                        output::split_text(&record.record)
+                    }
+                },
+                || output::split_tsv(&record.record),
+            )
+        }
+    })?;
+    writer.finish()?;
+    Ok(if failed.get() > 0 {
         EXIT_SOME_FAILED
     } else {
         EXIT_OK

@@ -9,6 +9,11 @@ const RULE_SETS: &[(&str, &str)] = &[
         "demo-letters",
         include_str!("../../rule-sets/demo-letters.jr"),
     ),
+    ("german", include_str!("../../rule-sets/german.jr")),
+    (
+        "germanic-letters",
+        include_str!("../../rule-sets/germanic-letters.jr"),
+    ),
 ];
 
 /// The text of a bundled rule file.
