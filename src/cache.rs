@@ -4,13 +4,14 @@
 
 use crate::analyzer::{Analyzer, SplitRecord};
 use std::collections::HashMap;
+use std::sync::Arc;
 
 /// An analyzer with a bounded cache of results per input string.
 #[derive(Debug)]
 pub struct CachedAnalyzer<'a> {
     /// The analyzer.
     pub analyzer: Analyzer<'a>,
-    cache: HashMap<String, SplitRecord>,
+    cache: HashMap<String, Arc<SplitRecord>>,
     capacity: usize,
     top: usize,
     hits: u64,
@@ -31,16 +32,16 @@ impl<'a> CachedAnalyzer<'a> {
     }
 
     /// Splits one input, from the cache when it was seen recently.
-    pub fn split(&mut self, input: &str) -> SplitRecord {
+    pub fn split(&mut self, input: &str) -> Arc<SplitRecord> {
         if self.capacity == 0 {
-            return self.analyzer.split(input, self.top);
+            return Arc::new(self.analyzer.split(input, self.top));
         }
         if let Some(r) = self.cache.get(input) {
             self.hits += 1;
             return r.clone();
         }
         self.misses += 1;
-        let record = self.analyzer.split(input, self.top);
+        let record = Arc::new(self.analyzer.split(input, self.top));
         if self.cache.len() >= self.capacity {
             self.cache.clear();
         }
@@ -71,7 +72,7 @@ mod tests {
             let a = cached.split(w);
             let b = Analyzer::new(&rules, &lex).split(w, 5);
             assert_eq!(
-                serde_json::to_string(&a).unwrap(),
+                serde_json::to_string(&*a).unwrap(),
                 serde_json::to_string(&b).unwrap()
             );
         }
