@@ -56,6 +56,8 @@ pub mod codes {
     pub const NO_LEXICON: &str = "no-lexicon";
     /// A lexicon line was malformed and skipped.
     pub const LEXICON_LINE: &str = "lexicon-line";
+    /// The rule-set's lexicon could not be loaded (an error).
+    pub const LEXICON: &str = "lexicon";
 }
 
 /// What to check a rule-set with.
@@ -86,7 +88,7 @@ impl Default for CheckOptions {
 #[derive(Debug, thiserror::Error)]
 #[non_exhaustive]
 pub enum CheckError {
-    /// A lexicon could not be loaded.
+    /// A lexicon file given with `--lexicon` could not be read.
     #[error(transparent)]
     Lexicon(#[from] LexiconError),
 }
@@ -177,8 +179,24 @@ pub fn check_named(name_or_path: &str, options: &CheckOptions) -> Result<CheckRe
         !options.lexicons.is_empty() || (options.default_lexicon && set.settings.lexicon.is_some());
     let mut diagnostics = set.warnings.clone();
     let lexicon = if loads_lexicon {
-        let (lexicon, issues) =
-            Lexicon::for_rules(&set, &options.lexicons, options.default_lexicon, false)?;
+        let loaded = Lexicon::for_rules(&set, &options.lexicons, options.default_lexicon, false);
+        let (lexicon, issues) = match loaded {
+            Ok(found) => found,
+            // A file given on the command line that cannot be read stops the check.
+            Err(e @ LexiconError::Io { .. }) => return Err(e.into()),
+            // Anything else (e.g. `set lexicon` naming no bundled lexicon) is
+            // a problem of the rule-set: report it and check without a lexicon.
+            Err(e) => {
+                diagnostics.push(
+                    Diagnostic::error(codes::LEXICON, e.to_string(), None)
+                        .with_hint("fix `set lexicon = NAME`, or give the lexicon with --lexicon"),
+                );
+                let mut report = CheckReport::new(name_or_path, diagnostics);
+                report.rule_count = set.rules.len();
+                report.examples = set.examples.len();
+                return Ok(report);
+            }
+        };
         for issue in issues {
             diagnostics.push(
                 Diagnostic::warning(
@@ -375,33 +393,66 @@ fn identity_correspondences(set: &RuleSet, files: &[RuleFile], out: &mut Vec<Dia
             let (Some(from), Some(to)) = (class(from_name), class(target)) else {
                 continue;
             };
-            let same: Vec<String> = from
+            let same: Vec<&String> = from
                 .members
                 .iter()
                 .zip(&to.members)
                 .filter(|(a, b)| a == b)
-                .map(|(a, _)| a.clone())
+                .map(|(a, _)| a)
                 .collect();
             if same.is_empty() {
                 continue;
             }
-            let what = if same.len() == from.members.len() {
-                "every member".to_string()
-            } else {
-                list(&same, 6)
+            // Mapping a member onto itself matters when the instance it gives
+            // then changes nothing at all: it repeats plain concatenation (or
+            // the plain space or hyphen), so those analyses are found twice.
+            let Some(ri) = set.rule_by_name(&rule.name.value) else {
+                continue;
             };
+            let noops: Vec<String> = set
+                .instances
+                .iter()
+                .filter(|i| {
+                    i.rule == ri
+                        && i.separator != Separator::Merged
+                        && format!("{}{}", i.surface_left, i.surface_right)
+                            == format!("{}{}", i.left, i.right)
+                        && same.iter().any(|m| i.surface().contains(m.as_str()))
+                })
+                .map(|i| {
+                    format!(
+                        "{} + {} → {}",
+                        show(&i.left),
+                        show(&i.right),
+                        show(&i.surface().replace(' ', "_"))
+                    )
+                })
+                .collect();
+            if noops.is_empty() {
+                continue;
+            }
+            let same: Vec<String> = same.into_iter().cloned().collect();
             out.push(
                 Diagnostic::warning(
                     codes::IDENTITY_CORRESPONDENCE,
                     format!(
-                        "`[{}>{}]` maps {what} onto itself (class `{}` and class `{}` agree there)",
-                        slot.name, target, from.name, to.name
+                        "`[{}>{}]` maps {} onto itself, so {} of rule `{}` change{} nothing: {}",
+                        slot.name,
+                        target,
+                        list(&same, 6),
+                        if noops.len() == 1 { "one junction" } else { "junctions" },
+                        rule.name.value,
+                        if noops.len() == 1 { "s" } else { "" },
+                        list(&noops, 4)
                     ),
                     Some(set.sources.locate(item.span)),
                 )
-                .with_related(format!("class `{}` is defined here", to.name), to.location.clone())
+                .with_related(
+                    format!("class `{}` is defined here", to.name),
+                    to.location.clone(),
+                )
                 .with_hint(format!(
-                    "where nothing changes the rule repeats plain concatenation; remove those members from `{}` and `{}`",
+                    "such a junction repeats plain concatenation and every analysis through it is found twice; remove those members from `{}` and `{}`",
                     from.name, to.name
                 )),
             );
