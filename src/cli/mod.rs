@@ -2,6 +2,7 @@
 
 mod check;
 mod common;
+mod explain;
 mod eval;
 mod join;
 mod rules_cmd;
@@ -49,6 +50,8 @@ enum Command {
     Rules(rules_cmd::RulesArgs),
     /// Check a rule-set: compile, lint, and verify its examples both ways.
     Check(check::CheckArgs),
+    /// Explain how a word is analysed: the lattice, the ranking, why not.
+    Explain(explain::ExplainArgs),
     /// Score splits against a gold file.
     Eval(eval::EvalArgs),
 }
@@ -68,6 +71,7 @@ pub fn run() -> i32 {
         Command::Join(args) => join::run(args),
         Command::Rules(args) => rules_cmd::run(args),
         Command::Check(args) => check::run(args),
+        Command::Explain(args) => explain::run(args),
         Command::Eval(args) => eval::run(args),
     };
     match result {
