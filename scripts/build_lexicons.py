@@ -1,0 +1,487 @@
+#!/usr/bin/env python3
+"""Regenerate juncture's bundled Germanic lexicons from the `wordfreq` package.
+
+    pip install wordfreq==3.1.1 HanTa==1.2.1 numpy
+    python3 scripts/build_lexicons.py                 # all five lexicons
+    python3 scripts/build_lexicons.py --lang de nl    # only some of them
+
+Writes lexicons/{german,dutch,swedish,danish,norwegian}.tsv (wordfreq codes
+de, nl, sv, da, nb).  The output is deterministic: the same package versions
+give byte-identical files (no timestamps are written).
+
+Format (UTF-8, NFC, one entry a line, `#` lines are comments):
+
+    form<TAB>frequency[<TAB>tags]
+
+* frequency -- round(wordfreq.word_frequency(form) * 1e9), i.e. occurrences per
+  billion words, at least 1.
+* tags -- `key=value` pairs joined by `;`.  The third column (and its tab) is
+  left out when a form has no tags.  Keys written by this script:
+    pos=noun|verb|adj|adv|other   (German and Dutch only, from HanTa)
+    proper=yes                    (HanTa's best reading is a proper noun)
+  German nouns (pos=noun) are written capitalised (`Arbeit`), everything else
+  in lower case; the engine case-folds on lookup.
+
+Data: wordfreq's word lists are CC BY-SA 4.0 (see lexicons/README.md for the
+attribution wordfreq asks for); wordfreq's code is Apache-2.0.  The tags are
+computed with HanTa (LGPL-3.0-or-later); no HanTa code or model is copied into
+the output, only the part-of-speech labels it assigns.
+
+Filters (applied in this order; every form that fails one is dropped, nothing
+is kept with a "junk" tag -- a dropped form cannot be misused by a consumer
+that ignores tags):
+
+ 1. NFC-normalise.  Keep a form only if every character is a letter of the
+    language's alphabet (ALPHABET below): this drops anything with digits,
+    apostrophes, hyphens, periods, other punctuation, emoji, other scripts and
+    foreign diacritics.
+ 2. Drop single letters.
+ 3. Drop forms without a vowel (VOWELS below, `y` counts as a vowel).  These
+    are abbreviations, acronyms and interjections (wordfreq's tokenizer strips
+    the abbreviation period): str, bzw, ggf, nr, km, tv, hmm.
+ 4. Two-letter forms are kept only if frequency >= TWO_LETTER_MIN (500,000 per
+    billion, i.e. 0.05 % of all tokens -- in every one of these lists that
+    threshold keeps only native function words such as de `zu`, nl `op`,
+    sv `på`) or if they are in the language's ALLOW_TWO list: common content
+    words that are productive compound parts (de Öl, Ei; sv/nb/da øl/öl, is,
+    by ...).  Everything else of two letters (dr, tv, ok, eu, of, ...) goes.
+ 5. Letter runs: a letter repeated 4+ times is dropped (sooo, jaaaa, hmmm).
+    A run of exactly 3 is kept only where the form splits at the run into
+    two forms of at least 3 letters that are themselves in the filtered list
+    (Schifffahrt = schiff + fahrt, stressstoornis = stress + stoornis);
+    elongations (seeehr, sååå, heeel) and roman numerals (iii, xiii) go.
+ 6. ABBREVIATIONS: per-language hand list of common abbreviations that do
+    contain a vowel and so survive rule 3 (de usw, evtl, inkl, ca; nl enz,
+    bijv; sv osv, pga; ...).  None of them is a word of the language.
+ 7. FRAGMENTS: per-language hand list of derivational/inflectional suffixes and
+    unstressed prefixes that appear as tokens only through hyphenation at line
+    ends, gender forms (Lehrer*innen, Bürger:innen) or OCR: de ung, heit, keit,
+    lich, chen, nen, ner, ver; nl heid, lijk, tje; sv ning, het-en ...  Each
+    list was checked so that it holds no real word (de `bar`, `los`, `haft`,
+    `schaft`, `innen`, `ende`; sv `het`, `dom`; da `lig`, `hed` are words and
+    stay).
+ 8. MAX_ENTRIES: keep at most this many forms (highest frequency first) so
+    that each file stays under ~15 MB.
+
+Tagging (German and Dutch, HanTa's tag_word on the lower-case form with
+casesensitive=False, since wordfreq has folded case):
+  * the candidate readings are grouped into noun/verb/adj/adv/other, their
+    probabilities summed per group, and the best group wins;
+  * verb preference: if the form ends in -n (the shape of an infinitive) and
+    the verb group is at least exp(-VERB_MARGIN) (= 1/7.4) as probable as the
+    winner, pos=verb.  Nominalised infinitives (das Schreiben, het lopen) are
+    thereby verbs, so the rule-set can use the verb stem (Schreibtisch);
+  * German only: wordfreq spells ß as `ss` (it case-folds); HanTa knows ß
+    spellings better, so forms with `ss` are also tagged with `ss`->`ß`
+    variants and the best-scored variant's reading is used.  The form column
+    keeps wordfreq's `ss` spelling.
+Swedish, Danish and Norwegian have no tags: no package on PyPI ships a POS
+model for them that runs offline (spaCy/stanza/UDPipe models are downloaded
+at run time; simplemma gives lemmas only).
+"""
+
+import argparse
+import math
+import os
+import sys
+import time
+import unicodedata
+from importlib import metadata
+
+WORDFREQ_VERSION = "3.1.1"
+HANTA_VERSION = "1.2.1"
+TWO_LETTER_MIN = 500_000  # per billion words
+VERB_MARGIN = 2.0  # natural-log units: verb reading >= best / e**2
+
+LANGS = {
+    "de": dict(name="German", file="german.tsv", tagger="morphmodel_ger.pgz",
+               max_entries=400_000),
+    "nl": dict(name="Dutch", file="dutch.tsv", tagger="morphmodel_dutch.pgz",
+               max_entries=None),
+    "sv": dict(name="Swedish", file="swedish.tsv", tagger=None, max_entries=None),
+    "da": dict(name="Danish", file="danish.tsv", tagger=None, max_entries=None),
+    "nb": dict(name="Norwegian (Bokmål)", file="norwegian.tsv", tagger=None,
+               max_entries=None),
+}
+
+_AZ = "abcdefghijklmnopqrstuvwxyz"
+# Letters of each language's orthography (lower case).  German: the official
+# alphabet plus umlauts and ß (wordfreq folds ß to ss, so ß never occurs).
+# Dutch: trema and the accents of standard spelling (één, café, hè, enquête,
+# façade); emphasis accents (á, ó, ú, í) and other loans are not letters.
+# Swedish/Danish/Norwegian: their extra letters plus é (idé, armé, allé);
+# Norwegian also ô, ò (fôr, òg).
+ALPHABET = {
+    "de": _AZ + "äöüß",
+    "nl": _AZ + "ëïöüéèêç",
+    "sv": _AZ + "åäöé",
+    "da": _AZ + "æøåé",
+    "nb": _AZ + "æøåéôò",
+}
+VOWELS = {
+    "de": "aeiouyäöü",
+    "nl": "aeiouyëïöüéèê",
+    "sv": "aeiouyåäöé",
+    "da": "aeiouyæøåé",
+    "nb": "aeiouyæøåéôò",
+}
+
+# Two-letter content words below TWO_LETTER_MIN that are real words and
+# productive compound parts (first or last):
+ALLOW_TWO = {
+    "de": {"ei", "öl"},                 # Ei (Eigelb, Hühnerei), Öl (Ölpreis, Olivenöl)
+    "nl": {"ei", "ui", "os", "as"},     # ei (eierdop), ui (uiensoep), os (ossenstaart),
+                                        # as (asbak, wielas)
+    "sv": {"by", "ek", "is", "ko", "ny", "ur", "öl", "ås", "ål"},
+                                        # by (bygata), ek (ekträ), is (isbjörn), ko (komjölk),
+                                        # ny (nybyggd), ur (urmakare), öl (ölglas), ås, ål
+    "nb": {"by", "is", "ku", "ny", "øl", "øy", "ås", "ål"},
+                                        # by (bysentrum), is (iskrem), ku (kumelk), ny,
+                                        # øl (ølflaske), øy (øygruppe), ås, ål
+    "da": {"by", "is", "ko", "ny", "øl", "ål", "ås"},
+                                        # by (byrådet), is (isbjørn), ko (komælk), ny,
+                                        # øl (ølflaske), ål, ås
+}
+
+# Abbreviations that contain a vowel (so rule 3 does not catch them) and are
+# common enough to be in the lists without their period.  None is a word.
+ABBREVIATIONS = {
+    "de": set("""
+        abb abk abs ahd akk allg anm aufl aug ausg bearb bez ca ders dez dipl ebd ehem
+        eigtl einschl engl entspr erw etc etw evt evtl exkl feb febr geb gebr gem
+        gesch gest griech ggü incl inh ing inkl insb isbn ital jul jun kath lat
+        mind min mio nachm nov okt orig prof ref resp sep sept tel techn theol
+        univ usw uvm verf verh verl vol vorm westf
+        """.split()),
+    "nl": set("""
+        afb afd art aub bijv ca div enz etc evt excl feb gem incl ing ipv ivm
+        mevr nav nov okt ong pag prof resp sep sept tov vert
+        """.split()),
+    "sv": set("""
+        ang aug avd bla ca dec enl etc exkl feb forts inkl milj nov okt osv pga
+        resp sek sep sept tel tex uppl
+        """.split()),
+    "nb": set("""
+        ang aug avd bla ca des div ekskl etc evt feb forts ifm iflg ift iht inkl
+        mill mva nov okt osv pga sep sept vedr
+        """.split()),
+    "da": set("""
+        afd ang aug bla ca dec div ekskl etc evt feb forts ifm iflg iht inkl mia
+        mio nov okt osv pga sep sept vedr
+        """.split()),
+}
+
+# Affix fragments (see rule 7).  Checked against each language: no entry is a
+# word on its own.
+FRAGMENTS = {
+    "de": set("""
+        ale alen ant anten barkeit chen ele eln emp ent enz enzen erin erinnen
+        ern ens ers est ete eten heit heiten ien ieren iert ierte ierung
+        ierungen ige igen iger iges igkeit iker isch ische ischen ischer isches
+        isten istin ismus ität itäten ive iven keit keiten lein lich liche
+        lichen licher liches lichkeit ling linge losigkeit nen ner ners nis
+        nisse ös öse ösen sam sch schaften ste sten ster stes ten ter tes tet
+        tion tionen tum tümer tur ung ungen ungs ver zer
+        """.split()),
+    "nl": set("""
+        aars achtig achtige ant anten baarheid eel ele elijk ens ent ering erij
+        ers eur ief ige ine ines ing ingen isch ische isme ist isten jes heid
+        lijk lijke lijkheid ling lingen sie sies ste sten sters tie ties tje
+        tjes
+        """.split()),
+    "sv": set("""
+        ade ades are aren arna ast aste else elsen erna eri heten iga ighet igt
+        ing isk iska ism ismen ist ister lig ligt ning ningar ningen sam skap
+        skapen tion tionen
+        """.split()),
+    "nb": set("""
+        ast aste else elsen ere eren eri heten ige ighet ing isk iske isme ist
+        ister itet lig lige ning ningen ninger tion tionen
+        """.split()),
+    "da": set("""
+        else elsen ere eren eri est ige ighed ing isk iske isme ist ister itet
+        ning ningen ninger tion tionen
+        """.split()),
+}
+
+FILTER_SUMMARY = [
+    "NFC; only letters of the alphabet [{alphabet}] (no digits, apostrophes, hyphens, periods, other scripts)",
+    "no single letters",
+    "at least one vowel [{vowels}] (drops str, bzw, nr, hmm ...)",
+    "2-letter forms only if frequency >= {two_min} per billion or in allow list: {allow2}",
+    "no letter 4+ times in a row; a triple letter only where the form splits there into two listed forms of >= 3 letters",
+    "hand list of {n_abbr} vowel-containing abbreviations dropped (e.g. {abbr_ex})",
+    "hand list of {n_frag} affix fragments dropped (e.g. {frag_ex})",
+    "{limit}",
+]
+
+# --- part-of-speech mapping -------------------------------------------------
+
+def coarse_de(tag):
+    """Map a HanTa STTS-style German tag to (pos, proper)."""
+    if tag == "NE":
+        return "noun", True
+    if tag in ("NN", "NNA"):
+        return "noun", False
+    if tag == "NNI" or tag.startswith(("VV", "VA", "VM")):
+        return "verb", False  # NNI = nominalised infinitive (das Wandern)
+    if tag.startswith("ADJ"):
+        return "adj", False
+    if tag in ("ADV", "PROAV", "PWAV"):
+        return "adv", False
+    return "other", False
+
+
+def coarse_nl(tag):
+    """Map a HanTa CGN-style Dutch tag to (pos, proper)."""
+    if tag.startswith(("N(eigen", "N_VAR(eigen")):
+        return "noun", True
+    if tag == "N" or tag.startswith(("N(", "N_VAR")):
+        return "noun", False
+    if tag.startswith("WW"):
+        return "verb", False
+    if tag.startswith("ADJ"):
+        return "adj", False
+    if tag.startswith("BW"):
+        return "adv", False
+    return "other", False
+
+
+def logaddexp(a, b):
+    if a < b:
+        a, b = b, a
+    return a + math.log1p(math.exp(b - a))
+
+
+def choose_pos(form, candidates, coarse):
+    """candidates: [(tag, logp)] from HanTa.  Returns (pos, proper) or None."""
+    groups = {}
+    proper_lp = {}
+    for tag, lp in candidates:
+        if tag in ("UNKNOWN", "EMPTY"):
+            continue
+        lp = float(lp)
+        pos, proper = coarse(tag)
+        groups[pos] = logaddexp(groups[pos], lp) if pos in groups else lp
+        if pos == "noun":
+            key = proper
+            proper_lp[key] = logaddexp(proper_lp[key], lp) if key in proper_lp else lp
+    if not groups:
+        return None
+    best = max(groups, key=lambda p: (groups[p], p))
+    if (best != "verb" and form.endswith("n") and "verb" in groups
+            and groups["verb"] >= groups[best] - VERB_MARGIN):
+        best = "verb"
+    proper = False
+    if best == "noun":
+        proper = proper_lp.get(True, -math.inf) > proper_lp.get(False, -math.inf)
+    return best, proper
+
+
+class Tagger:
+    def __init__(self, lang, model):
+        from HanTa import HanoverTagger as ht
+        self.lang = lang
+        self.t = ht.HanoverTagger(model)
+        self.coarse = coarse_de if lang == "de" else coarse_nl
+
+    def _cands(self, word):
+        return [(tag, float(lp)) for tag, lp in
+                self.t.tag_word(word, cutoff=6, casesensitive=False)]
+
+    def tag(self, form):
+        cands = self._cands(form)
+        if self.lang == "de" and "ss" in form:
+            # wordfreq folded ß to ss; let HanTa also see the ß spellings.
+            idx = [i for i in range(len(form) - 1) if form.startswith("ss", i)]
+            variants = [form[:i] + "ß" + form[i + 2:] for i in idx]
+            if len(idx) > 1:
+                variants.append(form.replace("ss", "ß"))
+            for v in variants:
+                vc = self._cands(v)
+                if vc and (not cands or max(p for _, p in vc) > max(p for _, p in cands)):
+                    cands = vc
+        return choose_pos(form, cands, self.coarse)
+
+
+# --- filtering ---------------------------------------------------------------
+
+def max_run(form):
+    best = run = 1
+    for a, b in zip(form, form[1:]):
+        run = run + 1 if a == b else 1
+        best = max(best, run)
+    return best
+
+
+def triple_splits(form, known):
+    """True if every triple-letter run in form splits into two known forms."""
+    for i in range(len(form) - 2):
+        if form[i] == form[i + 1] == form[i + 2]:
+            # the run form[i:i+3]: left part keeps two letters, right part
+            # keeps one (schiff|fahrt) or left keeps one... (stress|stoornis)
+            left, right = form[:i + 2], form[i + 2:]
+            left2, right2 = form[:i + 1], form[i + 1:]
+            if not ((len(left) >= 3 and len(right) >= 3 and left in known and right in known)
+                    or (len(left2) >= 3 and len(right2) >= 3 and left2 in known
+                        and right2 in known)):
+                return False
+    return True
+
+
+def wordlist_for(lang):
+    import wordfreq
+    # iter_wordlist('da', 'large') silently falls back to the *Norwegian*
+    # list (nearest language match), so ask which languages really have one.
+    return "large" if lang in wordfreq.available_languages("large") else "best"
+
+
+def build(lang, outdir):
+    import wordfreq
+    cfg = LANGS[lang]
+    wl = wordlist_for(lang)
+    alphabet = set(ALPHABET[lang])
+    vowels = set(VOWELS[lang])
+    t0 = time.time()
+
+    raw = 0
+    stage1 = []  # (form, freq) passing rules 1-4, 6, 7, in wordfreq order
+    seen = set()
+    dropped = dict(alphabet=0, single=0, novowel=0, two=0, run=0, abbrev=0, fragment=0)
+    for w in wordfreq.iter_wordlist(lang, wordlist=wl):
+        raw += 1
+        form = unicodedata.normalize("NFC", w)
+        if form in seen:
+            continue
+        if not form or any(c not in alphabet for c in form):
+            dropped["alphabet"] += 1
+            continue
+        if len(form) == 1:
+            dropped["single"] += 1
+            continue
+        if not any(c in vowels for c in form):
+            dropped["novowel"] += 1
+            continue
+        freq = max(1, round(wordfreq.word_frequency(form, lang, wordlist=wl) * 1e9))
+        if len(form) == 2 and freq < TWO_LETTER_MIN and form not in ALLOW_TWO[lang]:
+            dropped["two"] += 1
+            continue
+        if form in ABBREVIATIONS[lang]:
+            dropped["abbrev"] += 1
+            continue
+        if form in FRAGMENTS[lang]:
+            dropped["fragment"] += 1
+            continue
+        seen.add(form)
+        stage1.append((form, freq))
+
+    known = {f for f, _ in stage1 if max_run(f) < 3}
+    entries = []
+    for form, freq in stage1:
+        r = max_run(form)
+        if r >= 4 or (r == 3 and not triple_splits(form, known)):
+            dropped["run"] += 1
+            continue
+        entries.append((form, freq))
+    candidates = len(entries)
+    # Highest frequency first, ties by form, so the files diff stably.
+    entries.sort(key=lambda e: (-e[1], e[0]))
+    if cfg["max_entries"] is not None:
+        entries = entries[:cfg["max_entries"]]
+    print(f"[{lang}] wordlist={wl} raw={raw} kept={len(entries)} of {candidates} "
+          f"dropped={dropped} ({time.time() - t0:.0f}s)", file=sys.stderr, flush=True)
+
+    tagger = None
+    pos_counts = {}
+    if cfg["tagger"]:
+        tagger = Tagger(lang, cfg["tagger"])
+    lines = []
+    for i, (form, freq) in enumerate(entries):
+        tags = []
+        shown = form
+        if tagger is not None:
+            res = tagger.tag(form)
+            if res is not None:
+                pos, proper = res
+                tags.append(f"pos={pos}")
+                if proper:
+                    tags.append("proper=yes")
+                pos_counts[pos] = pos_counts.get(pos, 0) + 1
+                if lang == "de" and pos == "noun":
+                    shown = form[0].upper() + form[1:]
+        line = f"{shown}\t{freq}"
+        if tags:
+            line += "\t" + ";".join(tags)
+        lines.append(line)
+        if tagger is not None and i and i % 50_000 == 0:
+            print(f"[{lang}] tagged {i} ({time.time() - t0:.0f}s)", file=sys.stderr, flush=True)
+
+    abbr = sorted(ABBREVIATIONS[lang])
+    frag = sorted(FRAGMENTS[lang])
+    fmt = dict(
+        alphabet="".join(ALPHABET[lang]), vowels=VOWELS[lang], two_min=f"{TWO_LETTER_MIN:,}",
+        allow2=", ".join(sorted(ALLOW_TWO[lang])), n_abbr=len(abbr),
+        abbr_ex=", ".join(abbr[:8]) + " ...", n_frag=len(frag),
+        frag_ex=", ".join(frag[:8]) + " ...",
+        limit=(f"at most {cfg['max_entries']:,} entries, highest frequency first"
+               if cfg["max_entries"] else "no entry limit: every form that passes is kept"))
+    hanta_v = metadata.version("HanTa") if tagger else None
+    header = [
+        f"# juncture lexicon: {cfg['name']} ({lang})",
+        "# format: form<TAB>frequency<TAB>tags; frequency = occurrences per billion words (>= 1);",
+        "#   tags = key=value pairs separated by ';' (column omitted when empty)",
+        f"# source: wordfreq {metadata.version('wordfreq')} (PyPI), wordlist '{wl}', frequencies from word_frequency()",
+        "# data licence: CC BY-SA 4.0 (https://creativecommons.org/licenses/by-sa/4.0/);",
+        "#   derived from wordfreq by Robyn Speer (https://doi.org/10.5281/zenodo.7199437), which includes",
+        "#   data from Wikipedia, OpenSubtitles, SUBTLEX (Brysbaert et al.; freely available data),",
+        "#   Google Books Ngrams, the Leeds Internet Corpus, ParaCrawl, OSCAR and Twitter; see lexicons/README.md",
+    ]
+    if tagger:
+        header += [
+            f"# tags: pos=noun|verb|adj|adv|other and proper=yes from HanTa {hanta_v} model {cfg['tagger']}",
+            "#   (HanTa is LGPL-3.0-or-later; only its labels are stored here)",
+        ]
+        if lang == "de":
+            header.append("#   German nouns are written capitalised; wordfreq folds ß to ss (strasse)")
+    else:
+        header.append("# tags: none (no offline part-of-speech model for this language on PyPI)")
+    header.append("# filters:")
+    header += ["#   - " + s.format(**fmt) for s in FILTER_SUMMARY]
+    header.append(f"# entries: {len(lines)} (from {raw} in the wordfreq list)")
+    header.append(f"# command: python3 scripts/build_lexicons.py --lang {lang}"
+                  "  (after: pip install wordfreq==3.1.1 HanTa==1.2.1 numpy)")
+    out = os.path.join(outdir, cfg["file"])
+    with open(out, "w", encoding="utf-8", newline="\n") as f:
+        f.write("\n".join(header + lines) + "\n")
+    print(f"[{lang}] wrote {out}: {len(lines)} entries, pos={pos_counts} "
+          f"({time.time() - t0:.0f}s)", file=sys.stderr, flush=True)
+    return len(lines)
+
+
+def main():
+    here = os.path.dirname(os.path.abspath(__file__))
+    ap = argparse.ArgumentParser(description=__doc__.split("\n\n")[0])
+    ap.add_argument("--lang", nargs="+", choices=list(LANGS), default=list(LANGS))
+    ap.add_argument("--out", default=os.path.join(os.path.dirname(here), "lexicons"))
+    args = ap.parse_args()
+
+    v = metadata.version("wordfreq")
+    if v != WORDFREQ_VERSION:
+        sys.exit(f"wordfreq {WORDFREQ_VERSION} is required (found {v}): "
+                 f"pip install wordfreq=={WORDFREQ_VERSION}")
+    if any(LANGS[l]["tagger"] for l in args.lang):
+        try:
+            hv = metadata.version("HanTa")
+        except metadata.PackageNotFoundError:
+            sys.exit(f"HanTa is required for tagging: pip install HanTa=={HANTA_VERSION} numpy")
+        if hv != HANTA_VERSION:
+            print(f"warning: HanTa {HANTA_VERSION} expected, found {hv}; tags may differ",
+                  file=sys.stderr)
+
+    os.makedirs(args.out, exist_ok=True)
+    for lang in args.lang:
+        build(lang, args.out)
+
+
+if __name__ == "__main__":
+    main()
