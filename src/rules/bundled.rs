@@ -14,6 +14,10 @@ const RULE_SETS: &[(&str, &str)] = &[
         "germanic-letters",
         include_str!("../../rule-sets/germanic-letters.jr"),
     ),
+    ("dutch", include_str!("../../rule-sets/dutch.jr")),
+    ("swedish", include_str!("../../rule-sets/swedish.jr")),
+    ("danish", include_str!("../../rule-sets/danish.jr")),
+    ("norwegian", include_str!("../../rule-sets/norwegian.jr")),
 ];
 
 /// The text of a bundled rule file.
