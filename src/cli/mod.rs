@@ -3,6 +3,7 @@
 mod check;
 mod common;
 mod explain;
+mod induce;
 mod eval;
 mod join;
 mod rules_cmd;
@@ -52,6 +53,8 @@ enum Command {
     Check(check::CheckArgs),
     /// Explain how a word is analysed: the lattice, the ranking, why not.
     Explain(explain::ExplainArgs),
+    /// Propose junction rules from examples `part+part<TAB>surface`.
+    Induce(induce::InduceArgs),
     /// Score splits against a gold file.
     Eval(eval::EvalArgs),
 }
@@ -72,6 +75,7 @@ pub fn run() -> i32 {
         Command::Rules(args) => rules_cmd::run(args),
         Command::Check(args) => check::run(args),
         Command::Explain(args) => explain::run(args),
+        Command::Induce(args) => induce::run(args),
         Command::Eval(args) => eval::run(args),
     };
     match result {
