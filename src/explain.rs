@@ -1053,7 +1053,7 @@ fn no_rule(analyzer: &Analyzer, free: &RuleSet, keys: &[String], surface: &str) 
             let wchars: Vec<char> = word.chars().collect();
             let tail: String = wchars[(*claimed).min(wchars.len())..].iter().collect();
             let tchars = text.chars().count();
-            (tchars - tail.chars().count(), tail)
+            (tchars.saturating_sub(tail.chars().count()), tail)
         })
         .next()
         .unwrap_or((0, keys[i].clone()));
@@ -1274,7 +1274,8 @@ impl Explanation {
                 let _ = writeln!(out, "      no lexicon entry continues here");
             }
             for w in &node.words {
-                let read: String = chars[w.start.min(chars.len())..w.end.min(chars.len())]
+                let read: String = chars
+                    [w.start.min(chars.len())..w.end.clamp(w.start.min(chars.len()), chars.len())]
                     .iter()
                     .collect();
                 let mut underlying = String::new();

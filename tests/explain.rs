@@ -282,3 +282,24 @@ fn the_cli_explains_with_and_without_expect() {
     assert!(text.starts_with("tammora: 2 analyses\n"), "{text}");
     assert!(text.contains("found at rank 2 with score -12.0031, outranked by `tam + ora` (score -11.8198) by 0.1833"), "{text}");
 }
+
+mod never_panics {
+    use super::*;
+    use proptest::prelude::*;
+
+    proptest! {
+        #![proptest_config(ProptestConfig { cases: 64, .. ProptestConfig::default() })]
+        /// Any input and any expected analysis: an explanation, a picture, no panic.
+        #[test]
+        fn on_any_input(word in "[a-zA-Z ́ -+]{0,14}", expect in "[a-z+]{0,12}") {
+            let (rules, lexicon) = demo();
+            let analyzer = Analyzer::new(&rules, &lexicon);
+            let parts: Vec<String> = expect.split('+').map(str::to_string).collect();
+            let e = explain(&analyzer, &word, Some(&parts), &ExplainOptions::default());
+            let _ = e.to_text();
+            let svg = juncture::render_svg::render(&e);
+            prop_assert!(svg.ends_with("</svg>\n"));
+            let _ = juncture::explain::to_dot(&analyzer, &word);
+        }
+    }
+}

@@ -240,3 +240,19 @@ fn alignment_of_several_parts_puts_each_change_at_its_junction() {
     let kept: Vec<(usize, usize, usize)> = spans.iter().map(|s| (s.from, s.to, s.at)).collect();
     assert_eq!(kept, vec![(0, 4, 0), (0, 3, 5), (0, 3, 8), (1, 3, 12)]);
 }
+
+mod never_panics {
+    use super::*;
+    use proptest::prelude::*;
+
+    proptest! {
+        #![proptest_config(ProptestConfig { cases: 64, .. ProptestConfig::default() })]
+        /// Any examples file: rules that compile, and no panic.
+        #[test]
+        fn on_any_examples(lines in proptest::collection::vec("[a-eptkn +-]{0,6}\\+[a-eptkn+]{0,6}\t[a-eptkn -]{0,10}", 0..12)) {
+            let text = lines.join("\n");
+            let induction = induce(&text, &InduceOptions::default()).unwrap();
+            prop_assert!(compile("t", &induction.text, None, &CompileOptions::default()).is_ok(), "{}", induction.text);
+        }
+    }
+}
