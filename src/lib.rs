@@ -33,6 +33,7 @@ pub mod lattice;
 pub mod lexicon;
 pub mod normalize;
 pub mod output;
+pub mod paradigm;
 pub mod proof;
 pub mod render_svg;
 pub mod rules;

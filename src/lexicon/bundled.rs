@@ -21,7 +21,16 @@ pub fn compiled(name: &str, fingerprint: &str) -> Option<Lexicon> {
 }
 
 /// The TSV files of a bundled lexicon: (file name, text).
+///
+/// Special case: `sanskrit` is not a TSV file but generated, on first use,
+/// from the paradigm tables and stem lists in `lexicons/sanskrit/` (see
+/// [`super::sanskrit`]); its one "file" is that generated text.
 pub fn sources(name: &str) -> Vec<(&'static str, &'static str)> {
+    if name == SANSKRIT {
+        return super::sanskrit::tsv()
+            .map(|t| vec![(super::sanskrit::SOURCE_NAME, t)])
+            .unwrap_or_default();
+    }
     LEXICONS
         .iter()
         .filter(|(n, _, _)| *n == name)
@@ -36,15 +45,26 @@ const LEXICONS: &[(&str, &str, &str)] = &[(
     include_str!("../../lexicons/demo.tsv"),
 )];
 
+/// The bundled lexicon generated from paradigm tables (see [`sources`]).
+const SANSKRIT: &str = "sanskrit";
+
 /// Names of the bundled lexicons.
 pub fn names() -> Vec<&'static str> {
     let mut v: Vec<&str> = LEXICONS.iter().map(|(n, _, _)| *n).collect();
+    v.push(SANSKRIT);
     v.dedup();
     v
 }
 
 /// Adds the files of a bundled lexicon to a builder.
 pub fn add_bundled(builder: &mut LexiconBuilder, name: &str) -> Result<(), LexiconError> {
+    if name == SANSKRIT {
+        let text = super::sanskrit::tsv().map_err(|message| LexiconError::BadIndex {
+            file: super::sanskrit::SOURCE_NAME.to_string(),
+            message,
+        })?;
+        return builder.add_tsv(&format!("bundled:{SANSKRIT}"), text.as_bytes());
+    }
     let mut found = false;
     for (n, file, text) in LEXICONS {
         if *n == name {

@@ -11,6 +11,7 @@
 
 pub mod bundled;
 pub mod compiled;
+pub mod sanskrit;
 
 use crate::normalize::Normalizer;
 use crate::rules::{Condition, RuleSet};

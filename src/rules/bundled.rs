@@ -18,6 +18,7 @@ const RULE_SETS: &[(&str, &str)] = &[
     ("swedish", include_str!("../../rule-sets/swedish.jr")),
     ("danish", include_str!("../../rule-sets/danish.jr")),
     ("norwegian", include_str!("../../rule-sets/norwegian.jr")),
+    ("sanskrit", include_str!("../../rule-sets/sanskrit.jr")),
 ];
 
 /// The text of a bundled rule file.

@@ -1,0 +1,212 @@
+//! The bundled Sanskrit lexicon, built when it is loaded from paradigm tables
+//! (a special case among the bundled lexicons, which are otherwise TSV files).
+//!
+//! ```text
+//! lexicons/sanskrit/paradigms.yaml ─┐
+//! lexicons/sanskrit/stems.tsv ──────┼─ paradigm::expand ─▶ inflected forms with tags
+//! lexicons/sanskrit-sandhi-stems.tsv┘                      + compound stems (role=first)
+//! lexicons/sanskrit/indeclinables.tsv, verbs.tsv ─────────▶ ready-made forms
+//!                                     ─▶ tags bound / pragrhya ─▶ one TSV text
+//! ```
+//!
+//! What is added to the paradigm expander's output:
+//!
+//! - **Compound stems.** Every nominal stem also stands as a compound first
+//!   member, tagged `role=first` (the `pos`, `stem`, `class` and `gloss` of
+//!   the stem line are kept): the stem itself (`deva`, `agni`, `pitṛ`,
+//!   `bhagavat`), with final `s` written as visarga (`manas` → `manaḥ`, so
+//!   that the visarga rules give `manoratha`), final `c`/`ś` as `k` (`vāc` →
+//!   `vāk`, `diś` → `dik`, their pausa forms), and the `n` of `-an` and `-in`
+//!   stems dropped (`rājan` → `rāja`, `hastin` → `hasti`), as first members
+//!   are formed (Whitney §1203, from memory).
+//! - **`bound=yes`** on every reading of a form all of whose readings are
+//!   `role=first` (`pra`, `agni`, `rāja`): such a form never ends an analysis
+//!   and never stands before a printed space (conditions in
+//!   `rule-sets/sanskrit.jr`). A form with some free reading (`deva`, stem
+//!   and vocative) is not bound.
+//! - **`pragrhya=yes`** on every reading of a form that ends in `ī`, `ū` or
+//!   `e` and all of whose readings are dual (`kavī`, `labhete`): the
+//!   ordinary vowel rules do not apply to it, only the pragṛhya rule. A form
+//!   with dual and other readings (`phale`: loc. sg. and nom. du.) is left to
+//!   both.
+//!
+//! Forms carry no frequency (every part then weighs the same in ranking).
+//! The text is built once per process and shared.
+
+use crate::paradigm::{parse_stems, ParadigmTables};
+use std::collections::BTreeMap;
+use std::sync::OnceLock;
+
+/// File name under which the generated text is reported.
+pub const SOURCE_NAME: &str = "lexicons/sanskrit (generated from paradigms.yaml, stems.tsv, sanskrit-sandhi-stems.tsv, indeclinables.tsv, verbs.tsv)";
+
+const PARADIGMS: &str = include_str!("../../lexicons/sanskrit/paradigms.yaml");
+const STEMS: &[(&str, &str)] = &[
+    (
+        "lexicons/sanskrit/stems.tsv",
+        include_str!("../../lexicons/sanskrit/stems.tsv"),
+    ),
+    (
+        "lexicons/sanskrit-sandhi-stems.tsv",
+        include_str!("../../lexicons/sanskrit-sandhi-stems.tsv"),
+    ),
+    (
+        "lexicons/sanskrit/indeclinables.tsv",
+        include_str!("../../lexicons/sanskrit/indeclinables.tsv"),
+    ),
+    (
+        "lexicons/sanskrit/verbs.tsv",
+        include_str!("../../lexicons/sanskrit/verbs.tsv"),
+    ),
+];
+
+/// The lexicon as TSV text (`form<TAB><TAB>tags`), built on first use.
+/// An error names the file and line of the paradigm data that failed.
+pub fn tsv() -> Result<&'static str, String> {
+    static TEXT: OnceLock<Result<String, String>> = OnceLock::new();
+    TEXT.get_or_init(build)
+        .as_ref()
+        .map(String::as_str)
+        .map_err(Clone::clone)
+}
+
+/// The form a nominal stem takes as a compound first member.
+pub fn compound_stem(stem: &str, class: &str) -> String {
+    let chars: Vec<char> = stem.chars().collect();
+    let mut out = stem.to_string();
+    if (class.starts_with("an-") && stem.ends_with("an")) || (class == "in" && stem.ends_with("in"))
+    {
+        out.pop();
+        return out;
+    }
+    match chars.last() {
+        Some('s') => {
+            out.pop();
+            out.push('ḥ');
+        }
+        Some('c') | Some('ś') | Some('j') => {
+            out.pop();
+            out.push('k');
+        }
+        _ => {}
+    }
+    out
+}
+
+fn clean(value: &str) -> String {
+    value
+        .chars()
+        .map(|c| match c {
+            ';' | '\t' | '\n' | '\r' => ',',
+            '=' => '-',
+            c => c,
+        })
+        .collect::<String>()
+        .trim()
+        .to_string()
+}
+
+fn build() -> Result<String, String> {
+    let tables = ParadigmTables::from_yaml(PARADIGMS)
+        .map_err(|e| format!("lexicons/sanskrit/paradigms.yaml: {e}"))?;
+    // form → readings (tag lists), in first-seen order of forms.
+    let mut order: Vec<String> = Vec::new();
+    let mut readings: BTreeMap<String, Vec<Vec<(String, String)>>> = BTreeMap::new();
+    let mut add = |form: String, tags: Vec<(String, String)>| {
+        let list = readings.entry(form.clone()).or_insert_with(|| {
+            order.push(form);
+            Vec::new()
+        });
+        if !list.contains(&tags) {
+            list.push(tags);
+        }
+    };
+    for (file, text) in STEMS {
+        let lines = parse_stems(text).map_err(|e| format!("{file}: {e}"))?;
+        for line in &lines {
+            let forms = tables
+                .expand(&line.stem, &line.class, &line.tags)
+                .map_err(|e| format!("{file}:{}: {e}", line.line))?;
+            let nominal = forms.iter().any(|f| f.tag("case").is_some());
+            if nominal {
+                let mut tags: Vec<(String, String)> = vec![
+                    ("stem".into(), line.stem.clone()),
+                    ("class".into(), line.class.clone()),
+                ];
+                if let Some(pos) = forms[0].tag("pos") {
+                    tags.push(("pos".into(), pos.to_string()));
+                }
+                tags.push(("role".into(), "first".into()));
+                if let Some((_, g)) = line.tags.iter().find(|(k, _)| k == "gloss") {
+                    tags.push(("gloss".into(), g.clone()));
+                }
+                add(compound_stem(&line.stem, &line.class), tags);
+            }
+            for f in forms {
+                add(f.form, f.tags);
+            }
+        }
+    }
+    let mut out = String::with_capacity(order.len() * 80);
+    out.push_str("# juncture: the bundled Sanskrit lexicon, generated (src/lexicon/sanskrit.rs)\n");
+    for form in &order {
+        let list = &readings[form];
+        let all = |key: &str, value: &str| {
+            list.iter()
+                .all(|r| r.iter().any(|(k, v)| k == key && v == value))
+        };
+        let bound = all("role", "first");
+        let pragrhya = ["ī", "ū", "e"].iter().any(|e| form.ends_with(e)) && all("number", "du");
+        for r in list {
+            let mut tags: Vec<String> = r
+                .iter()
+                .map(|(k, v)| format!("{}={}", clean(k), clean(v)))
+                .collect();
+            if bound {
+                tags.push("bound=yes".into());
+            }
+            if pragrhya {
+                tags.push("pragrhya=yes".into());
+            }
+            out.push_str(form);
+            out.push_str("\t\t");
+            out.push_str(&tags.join(";"));
+            out.push('\n');
+        }
+    }
+    Ok(out)
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn compound_stems() {
+        assert_eq!(compound_stem("rājan", "an-m"), "rāja");
+        assert_eq!(compound_stem("hastin", "in"), "hasti");
+        assert_eq!(compound_stem("manas", "as-n"), "manaḥ");
+        assert_eq!(compound_stem("vāc", "c-f"), "vāk");
+        assert_eq!(compound_stem("diś", "ś-f"), "dik");
+        assert_eq!(compound_stem("deva", "a-m"), "deva");
+        assert_eq!(compound_stem("bhagavat", "vat"), "bhagavat");
+    }
+
+    #[test]
+    fn builds_with_tags() {
+        let text = tsv().unwrap();
+        let lines: Vec<&str> = text.lines().collect();
+        assert!(lines.len() > 10_000);
+        let has = |form: &str, tag: &str| {
+            lines
+                .iter()
+                .any(|l| l.split('\t').next() == Some(form) && l.contains(tag))
+        };
+        assert!(has("agni", "bound=yes"));
+        assert!(has("deva", "case=voc"));
+        assert!(!has("deva", "bound=yes"));
+        assert!(has("kavī", "pragrhya=yes"));
+        assert!(!has("phale", "pragrhya=yes"));
+        assert!(has("manaḥ", "role=first"));
+    }
+}
