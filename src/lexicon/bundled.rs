@@ -39,11 +39,48 @@ pub fn sources(name: &str) -> Vec<(&'static str, &'static str)> {
 }
 
 /// (name, TSV text) of every bundled lexicon file. A name may have several files.
-const LEXICONS: &[(&str, &str, &str)] = &[(
-    "demo",
-    "lexicons/demo.tsv",
-    include_str!("../../lexicons/demo.tsv"),
-)];
+const LEXICONS: &[(&str, &str, &str)] = &[
+    (
+        "demo",
+        "lexicons/demo.tsv",
+        include_str!("../../lexicons/demo.tsv"),
+    ),
+    (
+        "dutch",
+        "lexicons/dutch.tsv",
+        include_str!("../../lexicons/dutch.tsv"),
+    ),
+    (
+        "swedish",
+        "lexicons/swedish.tsv",
+        include_str!("../../lexicons/swedish.tsv"),
+    ),
+    (
+        "swedish",
+        "lexicons/swedish-closed-class.tsv",
+        include_str!("../../lexicons/swedish-closed-class.tsv"),
+    ),
+    (
+        "danish",
+        "lexicons/danish.tsv",
+        include_str!("../../lexicons/danish.tsv"),
+    ),
+    (
+        "danish",
+        "lexicons/danish-closed-class.tsv",
+        include_str!("../../lexicons/danish-closed-class.tsv"),
+    ),
+    (
+        "norwegian",
+        "lexicons/norwegian.tsv",
+        include_str!("../../lexicons/norwegian.tsv"),
+    ),
+    (
+        "norwegian",
+        "lexicons/norwegian-closed-class.tsv",
+        include_str!("../../lexicons/norwegian-closed-class.tsv"),
+    ),
+];
 
 /// The bundled lexicon generated from paradigm tables (see [`sources`]).
 const SANSKRIT: &str = "sanskrit";
