@@ -57,7 +57,7 @@ pub enum Statement {
     Class(ClassDecl),
     /// `set NAME = VALUE`
     Set(SetDecl),
-    /// `variant NAME "text": fold A = B`
+    /// `variant NAME "text": fold A = B`, or `fold A = B` (always applied; empty name)
     Variant(VariantDecl),
     /// `pattern NAME = [class]+ ...`
     Pattern(PatternDecl),

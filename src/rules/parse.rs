@@ -157,6 +157,7 @@ fn rule_words(rule: Rule) -> Option<&'static str> {
         | Rule::class_decl
         | Rule::set_decl
         | Rule::variant_decl
+        | Rule::fold_decl
         | Rule::pattern_decl
         | Rule::edge_decl
         | Rule::rule_decl
@@ -295,6 +296,16 @@ impl Builder {
                 Statement::Set(SetDecl {
                     name: self.spanned(&name, name.as_str().to_string()),
                     value: self.spanned(&value, parsed),
+                })
+            }
+            Rule::fold_decl => {
+                let from = inner.next().expect("grammar: fold source");
+                let to = inner.next().expect("grammar: fold target");
+                Statement::Variant(VariantDecl {
+                    name: Spanned { value: String::new(), span },
+                    description: None,
+                    from: self.spanned(&from, from.as_str().to_string()),
+                    to: self.spanned(&to, to.as_str().to_string()),
                 })
             }
             Rule::variant_decl => {
