@@ -559,48 +559,40 @@ impl Candidates<'_> {
     }
 }
 
-/// Every underlying end (suffix) and start (prefix) of the candidate words
-/// of one side, up to the longest end any instance has.
-#[derive(Default)]
-struct Affixes {
-    /// Suffixes shorter than their word.
-    proper_suffix: HashSet<String>,
-    /// Whole words (a suffix equal to the word).
-    whole: HashSet<String>,
-    /// Prefixes (any length up to the word).
-    prefix: HashSet<String>,
+/// For the underlying ends and starts the instances need, the lexicon
+/// entries that end (start) with each, found in one scan of the lexicon.
+struct EndIndex<'a> {
+    by_suffix: HashMap<&'a str, Vec<usize>>,
+    by_prefix: HashMap<&'a str, Vec<usize>>,
 }
 
-fn affixes(
-    lexicon: &Lexicon,
-    conds: &[&Condition],
-    min_len: usize,
-    max_l: usize,
-    max_r: usize,
-) -> Affixes {
-    let mut a = Affixes::default();
-    for e in lexicon.entries() {
-        let chars: Vec<char> = e.key.chars().collect();
-        if chars.len() < min_len
-            || !conds
-                .iter()
-                .all(|c| condition_holds(c, &e.key, &e.readings))
-        {
-            continue;
-        }
-        for l in 0..=max_l.min(chars.len()) {
-            let s: String = chars[chars.len() - l..].iter().collect();
-            if l == chars.len() {
-                a.whole.insert(s);
-            } else {
-                a.proper_suffix.insert(s);
+fn end_index<'a>(set: &'a RuleSet, lexicon: &Lexicon) -> EndIndex<'a> {
+    let lefts: HashSet<&str> = set.instances.iter().map(|i| i.left.as_str()).collect();
+    let rights: HashSet<&str> = set.instances.iter().map(|i| i.right.as_str()).collect();
+    let left_lens: BTreeSet<usize> = lefts.iter().map(|l| l.len()).filter(|&l| l > 0).collect();
+    let right_lens: BTreeSet<usize> = rights.iter().map(|r| r.len()).filter(|&r| r > 0).collect();
+    let mut index = EndIndex {
+        by_suffix: HashMap::new(),
+        by_prefix: HashMap::new(),
+    };
+    for (id, e) in lexicon.entries().enumerate() {
+        let key = e.key.as_str();
+        for &l in &left_lens {
+            if l <= key.len() && key.is_char_boundary(key.len() - l) {
+                if let Some(&left) = lefts.get(&key[key.len() - l..]) {
+                    index.by_suffix.entry(left).or_default().push(id);
+                }
             }
         }
-        for r in 0..=max_r.min(chars.len()) {
-            a.prefix.insert(chars[..r].iter().collect());
+        for &r in &right_lens {
+            if r <= key.len() && key.is_char_boundary(r) {
+                if let Some(&right) = rights.get(&key[..r]) {
+                    index.by_prefix.entry(right).or_default().push(id);
+                }
+            }
         }
     }
-    a
+    index
 }
 
 fn never_fires(set: &RuleSet, files: &[RuleFile], lexicon: &Lexicon, out: &mut Vec<Diagnostic>) {
@@ -636,8 +628,7 @@ fn never_fires(set: &RuleSet, files: &[RuleFile], lexicon: &Lexicon, out: &mut V
             );
         }
     }
-    let (max_l, max_r) = set.max_ends();
-    let mut cache: HashMap<String, Affixes> = HashMap::new();
+    let index = end_index(set, lexicon);
     for (ri, rule) in set.rules.iter().enumerate() {
         let rule_spans = spans.rules.get(&rule.name);
         let span_of = |c: &Condition| {
@@ -696,37 +687,60 @@ fn never_fires(set: &RuleSet, files: &[RuleFile], lexicon: &Lexicon, out: &mut V
             continue;
         }
         // Ends: some instance needs a left word ending in its left end and a
-        // right word starting with its right start.
-        let left_refs: Vec<&Condition> = rule.left_conditions.iter().collect();
-        let right_refs: Vec<&Condition> = rule.right_conditions.iter().collect();
-        let lkey = format!("{left_refs:?}");
-        let rkey = format!("{right_refs:?}");
-        cache
-            .entry(lkey.clone())
-            .or_insert_with(|| affixes(lexicon, &left_refs, min_len, max_l, max_r));
-        cache
-            .entry(rkey.clone())
-            .or_insert_with(|| affixes(lexicon, &right_refs, min_len, max_l, max_r));
-        let la = &cache[&lkey];
-        let ra = &cache[&rkey];
-        let pattern_left = candidates.any_pattern(&left_refs);
-        let pattern_right = candidates.any_pattern(&right_refs);
+        // right word starting with its right start, each meeting the rule's
+        // conditions on that side.
+        let pattern_left = candidates.any_pattern(&rule.left_conditions.iter().collect::<Vec<_>>());
+        let pattern_right =
+            candidates.any_pattern(&rule.right_conditions.iter().collect::<Vec<_>>());
+        let meets = |id: usize, conds: &[Condition]| {
+            let e = lexicon.entry(id);
+            e.key.chars().count() >= min_len
+                && conds
+                    .iter()
+                    .all(|c| condition_holds(c, &e.key, &e.readings))
+        };
+        let mut left_cache: HashMap<(&str, bool), bool> = HashMap::new();
+        let mut right_cache: HashMap<&str, bool> = HashMap::new();
         let mut any_left = false;
         let mut any_right = false;
         let mut fires = false;
         for inst in set.instances.iter().filter(|i| i.rule == ri) {
             let printed = matches!(inst.separator, Separator::Space | Separator::Hyphen);
-            let left_ok = la.proper_suffix.contains(&inst.left)
-                || (la.whole.contains(&inst.left) && !inst.surface().is_empty())
+            let surface_empty = inst.surface().is_empty();
+            let left_len = inst.left.chars().count();
+            let left_ok = *left_cache
+                .entry((inst.left.as_str(), surface_empty))
+                .or_insert_with(|| {
+                    let fits = |id: usize| {
+                        meets(id, &rule.left_conditions)
+                            && (!surface_empty || lexicon.entry(id).key.chars().count() > left_len)
+                    };
+                    if inst.left.is_empty() {
+                        (0..lexicon.len()).any(fits)
+                    } else {
+                        index
+                            .by_suffix
+                            .get(inst.left.as_str())
+                            .is_some_and(|ids| ids.iter().any(|&id| fits(id)))
+                    }
+                })
                 || (pattern_left
                     && inst.left.is_empty()
                     && inst.surface_left.is_empty()
                     && printed);
-            let right_ok = ra.prefix.contains(&inst.right)
-                || (pattern_right
-                    && inst.right.is_empty()
-                    && inst.surface_right.is_empty()
-                    && printed);
+            let right_ok = *right_cache.entry(inst.right.as_str()).or_insert_with(|| {
+                if inst.right.is_empty() {
+                    (0..lexicon.len()).any(|id| meets(id, &rule.right_conditions))
+                } else {
+                    index
+                        .by_prefix
+                        .get(inst.right.as_str())
+                        .is_some_and(|ids| ids.iter().any(|&id| meets(id, &rule.right_conditions)))
+                }
+            }) || (pattern_right
+                && inst.right.is_empty()
+                && inst.surface_right.is_empty()
+                && printed);
             any_left |= left_ok;
             any_right |= right_ok;
             if left_ok && right_ok {

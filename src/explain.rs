@@ -354,12 +354,16 @@ impl Finding {
                 rules_matching,
             } => {
                 let (l, r, s) = change;
+                let written = if s.is_empty() {
+                    "nothing".to_string()
+                } else {
+                    format!("`{}`", s.replace(' ', "_"))
+                };
                 let mut out = format!(
-                    "junction {} (`{left}` + `{right}`): no rule turns {} + {} into `{}`, which the surface shows at {at}",
+                    "junction {} (`{left}` + `{right}`): no rule turns {} + {} into {written}, which the surface shows at {at}",
                     junction + 1,
                     show(l),
                     show(r),
-                    s.replace(' ', "_")
                 );
                 if !rules_matching.is_empty() {
                     out.push_str(&format!(
