@@ -38,4 +38,5 @@ pub mod proof;
 pub mod render_svg;
 pub mod rules;
 pub mod script;
+pub mod scripted;
 pub mod search;

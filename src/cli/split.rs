@@ -5,6 +5,8 @@ use super::{EXIT_OK, EXIT_SOME_FAILED};
 use clap::{Args, ValueEnum};
 use juncture::analyzer::{index_tokens, Analyzer, SplitRecord, TokenRecord};
 use juncture::output::{self, Format, TermsOptions};
+use juncture::script::Script;
+use juncture::scripted;
 use std::time::Duration;
 
 /// Split words or lines into their parts.
@@ -98,6 +100,42 @@ pub struct SplitArgs {
     /// Give the greedy longest-match segmentation instead (a baseline to compare against).
     #[arg(long)]
     pub greedy: bool,
+    /// Script of the input, for rule-sets written in a transliteration
+    /// (`set script`: Sanskrit); `auto` detects it line by line. The input is
+    /// transliterated before analysis; offsets count characters of that
+    /// transliteration, given in the output (`transliteration`).
+    #[arg(long, value_enum, default_value_t = ScriptArg::Auto, value_name = "SCRIPT")]
+    pub script: ScriptArg,
+    /// Script of forms and surfaces in the output; default (`auto`): the input's.
+    #[arg(long, value_enum, value_name = "SCRIPT")]
+    pub output_script: Option<ScriptArg>,
+}
+
+/// A script for `--script` / `--output-script`.
+#[derive(ValueEnum, Debug, Clone, Copy, PartialEq, Eq)]
+pub enum ScriptArg {
+    /// Detect (input), or the input's (output).
+    Auto,
+    /// IAST (precomposed or combining diacritics).
+    Iast,
+    /// Devanagari.
+    Devanagari,
+    /// Harvard-Kyoto.
+    Hk,
+    /// SLP1.
+    Slp1,
+}
+
+impl ScriptArg {
+    fn script(self) -> Option<Script> {
+        match self {
+            ScriptArg::Auto => None,
+            ScriptArg::Iast => Some(Script::Iast),
+            ScriptArg::Devanagari => Some(Script::Devanagari),
+            ScriptArg::Hk => Some(Script::HarvardKyoto),
+            ScriptArg::Slp1 => Some(Script::Slp1),
+        }
+    }
 }
 
 pub fn run(args: SplitArgs) -> Result<i32, Failure> {
@@ -116,9 +154,34 @@ pub fn run(args: SplitArgs) -> Result<i32, Failure> {
     if args.format == SplitFormat::Terms || args.passthrough {
         return run_tokens(&args, &analyzer, k);
     }
+    let analysed = scripted::rules_script(&rules);
+    if analysed.is_none() && (args.script != ScriptArg::Auto || args.output_script.is_some()) {
+        return Err(Failure::Usage(format!(
+            "error: rule-set `{}` declares no script (`set script = …`), so --script and --output-script do not apply",
+            rules.name
+        )));
+    }
     let mut writer = RecordWriter::new(args.format.format());
     let mut failed = 0usize;
     for_each_input(&args.words, |line| {
+        if let (Some(analysed), Ok(text)) = (analysed, &line) {
+            let to = args.output_script.and_then(ScriptArg::script);
+            let record = scripted::split_with(text, args.script.script(), analysed, to, |t| {
+                if args.greedy {
+                    analyzer.split_greedy(t)
+                } else {
+                    analyzer.split(t, k)
+                }
+            });
+            if record.is_failure() {
+                failed += 1;
+            }
+            return writer.write(
+                &record,
+                || scripted::split_text(&record),
+                || output::split_tsv(&record.record),
+            );
+        }
         let record = match line {
             Ok(text) if args.greedy => analyzer.split_greedy(&text),
             Ok(text) => analyzer.split(&text, k),

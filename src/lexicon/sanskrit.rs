@@ -24,6 +24,10 @@
 //!   and never stands before a printed space (conditions in
 //!   `rule-sets/sanskrit.jr`). A form with some free reading (`deva`, stem
 //!   and vocative) is not bound.
+//! - **`final=vowel`** on the `role=first` readings of a form ending in a
+//!   vowel: such a first member meets a consonant with no change, by a rule
+//!   that does not consume its vowel (so `ā` in `gajam ā|rohati` can take
+//!   the junction before it too).
 //! - **`pragrhya=yes`** on every reading of a form that ends in `ī`, `ū` or
 //!   `e` and all of whose readings are dual (`kavī`, `labhete`): the
 //!   ordinary vowel rules do not apply to it, only the pragṛhya rule. A form
@@ -93,6 +97,9 @@ pub fn compound_stem(stem: &str, class: &str) -> String {
     out
 }
 
+/// Letters that end a form in a vowel (IAST; `ai`, `au` end in `i`, `u`).
+const VOWELS: &str = "aāiīuūṛṝḷḹeo";
+
 fn clean(value: &str) -> String {
     value
         .chars()
@@ -157,11 +164,15 @@ fn build() -> Result<String, String> {
         };
         let bound = all("role", "first");
         let pragrhya = ["ī", "ū", "e"].iter().any(|e| form.ends_with(e)) && all("number", "du");
+        let vowel_final = form.chars().last().is_some_and(|c| VOWELS.contains(c));
         for r in list {
             let mut tags: Vec<String> = r
                 .iter()
                 .map(|(k, v)| format!("{}={}", clean(k), clean(v)))
                 .collect();
+            if vowel_final && r.iter().any(|(k, v)| k == "role" && v == "first") {
+                tags.push("final=vowel".into());
+            }
             if bound {
                 tags.push("bound=yes".into());
             }
