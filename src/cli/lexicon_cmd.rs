@@ -47,6 +47,26 @@ pub enum LexiconAction {
         /// The file.
         file: PathBuf,
     },
+    /// Expand Sanskrit stems into inflected forms: a TSV for `split --lexicon`.
+    ///
+    /// Each STEMS file has lines `stem<TAB>class<TAB>tags` (an empty class
+    /// means a ready-made form), the classes those of the paradigm tables
+    /// (`--paradigms`, by default the bundled lexicons/sanskrit/paradigms.yaml).
+    /// The output is what the bundled Sanskrit lexicon is made of: every
+    /// inflected form with its tags, every nominal stem as a compound first
+    /// member (`role=first`), and the tags `bound`, `final` and `pragrhya`
+    /// that rule-sets/sanskrit.jr tests. With no STEMS files, the bundled
+    /// Sanskrit lexicon itself.
+    Expand {
+        /// Stem files (stem, paradigm class, tags).
+        stems: Vec<PathBuf>,
+        /// Paradigm tables (YAML) instead of the bundled ones.
+        #[arg(long, value_name = "FILE")]
+        paradigms: Option<PathBuf>,
+        /// Output file (default: standard output).
+        #[arg(long, short = 'o', value_name = "FILE")]
+        output: Option<PathBuf>,
+    },
 }
 
 pub fn run(args: LexiconArgs) -> Result<i32, Failure> {
@@ -69,19 +89,9 @@ pub fn run(args: LexiconArgs) -> Result<i32, Failure> {
             let mut builder = LexiconBuilder::new(&rules.normalizer).strict(strict);
             let mut sources = Vec::new();
             if let Some(name) = &bundled_name {
-                let files = bundled::sources(name);
-                if files.is_empty() {
-                    return Err(Failure::Usage(format!(
-                        "error: no bundled lexicon named `{name}` (bundled: {})",
-                        bundled::names().join(", ")
-                    )));
-                }
-                for (file, text) in files {
-                    builder
-                        .add_tsv(file, text.as_bytes())
-                        .map_err(|e| Failure::Usage(format!("error: {e}")))?;
-                    sources.push(file.to_string());
-                }
+                bundled::add_bundled(&mut builder, name)
+                    .map_err(|e| Failure::Usage(format!("error: {e}")))?;
+                sources.push(format!("bundled:{name}"));
             }
             for path in &inputs {
                 builder
@@ -127,5 +137,47 @@ pub fn run(args: LexiconArgs) -> Result<i32, Failure> {
             writeln!(out, "{info}")?;
             Ok(EXIT_OK)
         }
+        LexiconAction::Expand {
+            stems,
+            paradigms,
+            output,
+        } => expand(&stems, paradigms.as_deref(), output.as_deref()),
     }
+}
+
+/// `juncture lexicon expand`.
+fn expand(
+    stems: &[PathBuf],
+    paradigms: Option<&std::path::Path>,
+    output: Option<&std::path::Path>,
+) -> Result<i32, Failure> {
+    use juncture::lexicon::sanskrit;
+    let read = |p: &std::path::Path| {
+        std::fs::read_to_string(p)
+            .map_err(|e| Failure::Usage(format!("error: cannot read {}: {e}", p.display())))
+    };
+    let text = if stems.is_empty() && paradigms.is_none() {
+        sanskrit::tsv().map(str::to_string)
+    } else {
+        let tables = match paradigms {
+            Some(p) => read(p)?,
+            None => sanskrit::bundled_paradigms().to_string(),
+        };
+        let mut files = Vec::new();
+        for p in stems {
+            files.push((p.display().to_string(), read(p)?));
+        }
+        let files: Vec<(&str, &str)> = files
+            .iter()
+            .map(|(n, t)| (n.as_str(), t.as_str()))
+            .collect();
+        sanskrit::expand(&tables, &files)
+    }
+    .map_err(|e| Failure::Usage(format!("error: {e}")))?;
+    match output {
+        Some(p) => std::fs::write(p, &text)
+            .map_err(|e| Failure::Usage(format!("error: cannot write {}: {e}", p.display())))?,
+        None => std::io::stdout().lock().write_all(text.as_bytes())?,
+    }
+    Ok(EXIT_OK)
 }

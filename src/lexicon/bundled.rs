@@ -3,19 +3,55 @@
 use super::compiled::{self, IndexBytes};
 use super::{Lexicon, LexiconBuilder, LexiconError};
 
-/// (name, compiled lexicon) for bundled lexicons that ship a compiled index,
-/// built by `juncture lexicon build` from the TSV files below (a test checks
-/// that each is up to date). Loading one parses nothing.
-const COMPILED: &[(&str, &[u8])] = &[];
+/// Bundled lexicons shipped in compiled form: (name, rule-set it is built
+/// for, TSV sources in the repository, compiled bytes). The compiled files are
+/// made by `scripts/build_compiled_lexicons.sh` (`juncture lexicon build`);
+/// `tests/compiled_lexicons.rs` rebuilds them from the TSV sources and fails
+/// when one is stale. Loading one parses nothing.
+pub const COMPILED: &[(&str, &str, &[&str], &[u8])] = &[
+    (
+        "german",
+        "german",
+        &["lexicons/german.tsv"],
+        include_bytes!("../../lexicons/compiled/german.jlex"),
+    ),
+    (
+        "dutch",
+        "dutch",
+        &["lexicons/dutch.tsv"],
+        include_bytes!("../../lexicons/compiled/dutch.jlex"),
+    ),
+    (
+        "swedish",
+        "swedish",
+        &["lexicons/swedish.tsv", "lexicons/swedish-closed-class.tsv"],
+        include_bytes!("../../lexicons/compiled/swedish.jlex"),
+    ),
+    (
+        "danish",
+        "danish",
+        &["lexicons/danish.tsv", "lexicons/danish-closed-class.tsv"],
+        include_bytes!("../../lexicons/compiled/danish.jlex"),
+    ),
+    (
+        "norwegian",
+        "norwegian",
+        &[
+            "lexicons/norwegian.tsv",
+            "lexicons/norwegian-closed-class.tsv",
+        ],
+        include_bytes!("../../lexicons/compiled/norwegian.jlex"),
+    ),
+];
 
 /// The compiled form of a bundled lexicon, if it ships one built with this
-/// normalization (a variant that folds letters needs the TSV instead).
+/// normalization (a variant that folds letters re-normalizes it instead).
 pub fn compiled(name: &str, fingerprint: &str) -> Option<Lexicon> {
-    let (_, bytes) = COMPILED.iter().find(|(n, _)| *n == name)?;
+    let (_, _, _, bytes) = COMPILED.iter().find(|(n, _, _, _)| *n == name)?;
     compiled::load(
         &format!("bundled:{name}"),
         IndexBytes::embedded(bytes),
-        fingerprint,
+        Some(fingerprint),
     )
     .ok()
 }
@@ -39,48 +75,11 @@ pub fn sources(name: &str) -> Vec<(&'static str, &'static str)> {
 }
 
 /// (name, TSV text) of every bundled lexicon file. A name may have several files.
-const LEXICONS: &[(&str, &str, &str)] = &[
-    (
-        "demo",
-        "lexicons/demo.tsv",
-        include_str!("../../lexicons/demo.tsv"),
-    ),
-    (
-        "dutch",
-        "lexicons/dutch.tsv",
-        include_str!("../../lexicons/dutch.tsv"),
-    ),
-    (
-        "swedish",
-        "lexicons/swedish.tsv",
-        include_str!("../../lexicons/swedish.tsv"),
-    ),
-    (
-        "swedish",
-        "lexicons/swedish-closed-class.tsv",
-        include_str!("../../lexicons/swedish-closed-class.tsv"),
-    ),
-    (
-        "danish",
-        "lexicons/danish.tsv",
-        include_str!("../../lexicons/danish.tsv"),
-    ),
-    (
-        "danish",
-        "lexicons/danish-closed-class.tsv",
-        include_str!("../../lexicons/danish-closed-class.tsv"),
-    ),
-    (
-        "norwegian",
-        "lexicons/norwegian.tsv",
-        include_str!("../../lexicons/norwegian.tsv"),
-    ),
-    (
-        "norwegian",
-        "lexicons/norwegian-closed-class.tsv",
-        include_str!("../../lexicons/norwegian-closed-class.tsv"),
-    ),
-];
+const LEXICONS: &[(&str, &str, &str)] = &[(
+    "demo",
+    "lexicons/demo.tsv",
+    include_str!("../../lexicons/demo.tsv"),
+)];
 
 /// The bundled lexicon generated from paradigm tables (see [`sources`]).
 const SANSKRIT: &str = "sanskrit";
@@ -88,6 +87,7 @@ const SANSKRIT: &str = "sanskrit";
 /// Names of the bundled lexicons.
 pub fn names() -> Vec<&'static str> {
     let mut v: Vec<&str> = LEXICONS.iter().map(|(n, _, _)| *n).collect();
+    v.extend(COMPILED.iter().map(|(n, _, _, _)| *n));
     v.push(SANSKRIT);
     v.dedup();
     v
@@ -101,6 +101,15 @@ pub fn add_bundled(builder: &mut LexiconBuilder, name: &str) -> Result<(), Lexic
             message,
         })?;
         return builder.add_tsv(&format!("bundled:{SANSKRIT}"), text.as_bytes());
+    }
+    if let Some((_, _, _, bytes)) = COMPILED.iter().find(|(n, _, _, _)| *n == name) {
+        let lexicon = compiled::load(
+            &format!("bundled:{name}"),
+            IndexBytes::embedded(bytes),
+            None,
+        )?;
+        builder.add_lexicon(&lexicon);
+        return Ok(());
     }
     let mut found = false;
     for (n, file, text) in LEXICONS {

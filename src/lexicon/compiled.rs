@@ -6,13 +6,17 @@
 //! ```text
 //! magic    8 bytes  "JUNCLEX\0"
 //! version  u32      FORMAT_VERSION
-//! header   u32 length + JSON {entries, total_frequency, tag_keys, normalizer, sources}
-//! fst      u64 length + bytes of the fst::Map (form → entry number)
-//! offsets  (entries + 1) × u64: start of each entry in the blob
-//! blob     per entry: f64 frequency, str key, str form ("" = same as key),
-//!          u16 readings, per reading u16 tags, per tag str key, str value
-//!          (str = u32 length + UTF-8 bytes)
+//! header   u32 length + JSON {entries, total_frequency, tag_keys, normalizer,
+//!          sources, reading_sets, spellings}
+//! fst      u64 length + bytes of the fst::Map (form → entry number, in key order)
+//! records  entries × 8 bytes: f32 frequency, u32 (reading set << 2 | spelling)
 //! ```
+//!
+//! An entry's key is not stored: entry numbers are ranks in key order, so
+//! the FST gives the key of a number back (at each state, take the last
+//! transition whose output does not pass the number). Tag sets are interned
+//! (`reading_sets`); the display spelling is coded as 0 = the key, 1 = the key
+//! with its first letter capitalised, 2 = listed in `spellings`.
 
 use super::{Entry, Lexicon, LexiconError, Tags};
 use std::sync::{Arc, OnceLock};
@@ -84,8 +88,10 @@ impl AsRef<[u8]> for IndexBytes {
 /// Entries of a compiled lexicon, decoded on demand.
 #[derive(Debug, Clone)]
 pub(super) struct LazyEntries {
-    offsets: IndexBytes,
-    blob: IndexBytes,
+    index: fst::Map<IndexBytes>,
+    records: IndexBytes,
+    reading_sets: Vec<Vec<Tags>>,
+    spellings: std::collections::HashMap<usize, String>,
     cache: Vec<OnceLock<Entry>>,
 }
 
@@ -96,20 +102,66 @@ impl LazyEntries {
 
     pub(super) fn get(&self, id: usize) -> &Entry {
         self.cache[id].get_or_init(|| {
-            let offsets = self.offsets.as_ref();
-            let at = |i: usize| {
-                u64::from_le_bytes(offsets[i * 8..i * 8 + 8].try_into().unwrap_or([0; 8])) as usize
+            let rec = &self.records.as_ref()[id * 8..id * 8 + 8];
+            let frequency = f32::from_le_bytes([rec[0], rec[1], rec[2], rec[3]]) as f64;
+            let meta = u32::from_le_bytes([rec[4], rec[5], rec[6], rec[7]]) as usize;
+            let key = key_of(&self.index, id as u64);
+            let form = match meta & 3 {
+                1 => capitalise(&key),
+                2 => self
+                    .spellings
+                    .get(&id)
+                    .cloned()
+                    .unwrap_or_else(|| key.clone()),
+                _ => key.clone(),
             };
-            let blob = self.blob.as_ref();
-            let (start, end) = (at(id), at(id + 1));
-            decode_entry(blob.get(start..end).unwrap_or(&[])).unwrap_or_else(|| Entry {
-                key: String::new(),
-                form: String::new(),
-                frequency: 1.0,
-                readings: vec![Tags::new()],
-            })
+            let readings = self
+                .reading_sets
+                .get(meta >> 2)
+                .cloned()
+                .unwrap_or_default();
+            Entry {
+                key,
+                form,
+                frequency,
+                readings,
+            }
         })
     }
+}
+
+fn capitalise(key: &str) -> String {
+    let mut chars = key.chars();
+    match chars.next() {
+        Some(first) => first.to_uppercase().chain(chars).collect(),
+        None => String::new(),
+    }
+}
+
+/// The key with rank `id` in an FST whose values are ranks in key order.
+fn key_of(index: &fst::Map<IndexBytes>, id: u64) -> String {
+    let fst = index.as_fst();
+    let mut node = fst.root();
+    let mut out = 0u64;
+    let mut key = Vec::new();
+    loop {
+        if node.is_final() && out + node.final_output().value() == id {
+            break;
+        }
+        let mut chosen = None;
+        for t in node.transitions() {
+            if out + t.out.value() <= id {
+                chosen = Some(t);
+            } else {
+                break;
+            }
+        }
+        let Some(t) = chosen else { break };
+        key.push(t.inp);
+        out += t.out.value();
+        node = fst.node(t.addr);
+    }
+    String::from_utf8(key).unwrap_or_default()
 }
 
 #[derive(serde::Serialize, serde::Deserialize)]
@@ -119,11 +171,8 @@ struct Header {
     tag_keys: Vec<String>,
     normalizer: String,
     sources: Vec<String>,
-}
-
-fn put_str(out: &mut Vec<u8>, s: &str) {
-    out.extend_from_slice(&(s.len() as u32).to_le_bytes());
-    out.extend_from_slice(s.as_bytes());
+    reading_sets: Vec<Vec<Tags>>,
+    spellings: Vec<(usize, String)>,
 }
 
 struct Reader<'a> {
@@ -137,93 +186,57 @@ impl<'a> Reader<'a> {
         self.at += n;
         Some(s)
     }
-    fn u16(&mut self) -> Option<u16> {
-        Some(u16::from_le_bytes(self.take(2)?.try_into().ok()?))
-    }
     fn u32(&mut self) -> Option<u32> {
         Some(u32::from_le_bytes(self.take(4)?.try_into().ok()?))
     }
     fn u64(&mut self) -> Option<u64> {
         Some(u64::from_le_bytes(self.take(8)?.try_into().ok()?))
     }
-    fn f64(&mut self) -> Option<f64> {
-        Some(f64::from_le_bytes(self.take(8)?.try_into().ok()?))
-    }
-    fn str(&mut self) -> Option<&'a str> {
-        let n = self.u32()? as usize;
-        std::str::from_utf8(self.take(n)?).ok()
-    }
-}
-
-fn decode_entry(bytes: &[u8]) -> Option<Entry> {
-    let mut r = Reader { bytes, at: 0 };
-    let frequency = r.f64()?;
-    let key = r.str()?.to_string();
-    let form = r.str()?;
-    let form = if form.is_empty() {
-        key.clone()
-    } else {
-        form.to_string()
-    };
-    let n = r.u16()?;
-    let mut readings = Vec::with_capacity(n as usize);
-    for _ in 0..n {
-        let t = r.u16()?;
-        let mut tags = Tags::new();
-        for _ in 0..t {
-            let k = r.str()?.to_string();
-            let v = r.str()?.to_string();
-            tags.insert(k, v);
-        }
-        readings.push(tags);
-    }
-    Some(Entry {
-        key,
-        form,
-        frequency,
-        readings,
-    })
 }
 
 /// Writes a lexicon in the compiled format.
 pub fn write(lexicon: &Lexicon, sources: &[String]) -> Vec<u8> {
     let n = lexicon.len();
-    let mut blob = Vec::new();
-    let mut offsets = Vec::with_capacity((n + 1) * 8);
+    let mut records = Vec::with_capacity(n * 8);
+    let mut sets: Vec<Vec<Tags>> = Vec::new();
+    let mut set_ids: std::collections::HashMap<Vec<Tags>, usize> = std::collections::HashMap::new();
+    let mut spellings = Vec::new();
     for id in 0..n {
-        offsets.extend_from_slice(&(blob.len() as u64).to_le_bytes());
         let e = lexicon.entry(id);
-        blob.extend_from_slice(&e.frequency.to_le_bytes());
-        put_str(&mut blob, &e.key);
-        put_str(&mut blob, if e.form == e.key { "" } else { &e.form });
-        blob.extend_from_slice(&(e.readings.len().min(u16::MAX as usize) as u16).to_le_bytes());
-        for r in e.readings.iter().take(u16::MAX as usize) {
-            blob.extend_from_slice(&(r.len().min(u16::MAX as usize) as u16).to_le_bytes());
-            for (k, v) in r.iter().take(u16::MAX as usize) {
-                put_str(&mut blob, k);
-                put_str(&mut blob, v);
-            }
-        }
+        let set = *set_ids.entry(e.readings.clone()).or_insert_with(|| {
+            sets.push(e.readings.clone());
+            sets.len() - 1
+        });
+        let spelling = if e.form == e.key {
+            0
+        } else if e.form == capitalise(&e.key) {
+            1
+        } else {
+            spellings.push((id, e.form.clone()));
+            2
+        };
+        records.extend_from_slice(&(e.frequency as f32).to_le_bytes());
+        records.extend_from_slice(&(((set as u32) << 2) | spelling).to_le_bytes());
     }
-    offsets.extend_from_slice(&(blob.len() as u64).to_le_bytes());
     let header = Header {
         entries: n,
         total_frequency: lexicon.total_frequency(),
         tag_keys: lexicon.tag_keys().iter().cloned().collect(),
         normalizer: lexicon.fingerprint.clone(),
         sources: sources.to_vec(),
+        reading_sets: sets,
+        spellings,
     };
     let header = serde_json::to_vec(&header).unwrap_or_default();
     let fst = lexicon.fst_bytes();
-    let mut out = Vec::with_capacity(32 + header.len() + fst.len() + offsets.len() + blob.len());
+    let mut out = Vec::with_capacity(32 + header.len() + fst.len() + records.len());
     out.extend_from_slice(MAGIC);
     out.extend_from_slice(&FORMAT_VERSION.to_le_bytes());
     out.extend_from_slice(&(header.len() as u32).to_le_bytes());
     out.extend_from_slice(&header);
     out.extend_from_slice(&(fst.len() as u64).to_le_bytes());
     out.extend_from_slice(fst);
-    out.extend_from_slice(&offsets);
-    out.extend_from_slice(&blob);
+    out.extend_from_slice(&records);
     out
 }
 
@@ -233,11 +246,12 @@ pub fn is_compiled(bytes: &[u8]) -> bool {
 }
 
 /// Loads a compiled lexicon. `expected_normalizer` is the fingerprint of the
-/// rule-set's normalization; a file built for another one is refused.
+/// rule-set's normalization; a file built for another one is refused (None:
+/// accept any, e.g. to re-normalize its entries into a builder).
 pub fn load(
     file: &str,
     bytes: IndexBytes,
-    expected_normalizer: &str,
+    expected_normalizer: Option<&str>,
 ) -> Result<Lexicon, LexiconError> {
     let bad = |message: String| LexiconError::BadIndex {
         file: file.to_string(),
@@ -268,7 +282,7 @@ pub fn load(
     let hlen = r.u32().ok_or_else(corrupt)? as usize;
     let header: Header =
         serde_json::from_slice(r.take(hlen).ok_or_else(corrupt)?).map_err(|_| corrupt())?;
-    if header.normalizer != expected_normalizer {
+    if let Some(expected_normalizer) = expected_normalizer.filter(|e| *e != header.normalizer) {
         return Err(bad(format!(
             "the lexicon was compiled for another normalization ({}) than this rule-set's ({expected_normalizer}); {rebuild}",
             header.normalizer
@@ -277,32 +291,22 @@ pub fn load(
     let flen = r.u64().ok_or_else(corrupt)? as usize;
     let fst_start = r.at;
     r.take(flen).ok_or_else(corrupt)?;
-    let off_start = r.at;
-    let off_len = header
-        .entries
-        .checked_add(1)
-        .and_then(|n| n.checked_mul(8))
-        .ok_or_else(corrupt)?;
-    r.take(off_len).ok_or_else(corrupt)?;
-    let blob_start = r.at;
+    let rec_start = r.at;
+    let rec_len = header.entries.checked_mul(8).ok_or_else(corrupt)?;
+    if all.len() != rec_start + rec_len {
+        return Err(corrupt());
+    }
     let index = fst::Map::new(bytes.slice(fst_start, fst_start + flen)).map_err(|_| corrupt())?;
     if index.len() != header.entries {
         return Err(corrupt());
     }
     let lazy = LazyEntries {
-        offsets: bytes.slice(off_start, off_start + off_len),
-        blob: bytes.slice(blob_start, all.len()),
+        index: index.clone(),
+        records: bytes.slice(rec_start, rec_start + rec_len),
+        reading_sets: header.reading_sets,
+        spellings: header.spellings.into_iter().collect(),
         cache: (0..header.entries).map(|_| OnceLock::new()).collect(),
     };
-    // The last offset must be the blob's length.
-    let last = u64::from_le_bytes(
-        all[off_start + off_len - 8..off_start + off_len]
-            .try_into()
-            .unwrap_or([0; 8]),
-    ) as usize;
-    if last != all.len() - blob_start {
-        return Err(corrupt());
-    }
     Ok(Lexicon::from_compiled(
         index,
         lazy,
@@ -349,7 +353,7 @@ mod tests {
         let mut b = LexiconBuilder::new(&n);
         b.add_tsv(
             "t.tsv",
-            "Arbeit\t10\tpos=noun\nAmt\t5\nessen\t3\tpos=verb\nEssen\t4\tpos=noun\n".as_bytes(),
+            "Arbeit\t10\tpos=noun\nAmt\t5\nessen\t3\tpos=verb\nEssen\t4\tpos=noun\nMcKinsey\t2\nämter\t1.5\n".as_bytes(),
         )
         .unwrap();
         (b.build().unwrap(), n)
@@ -359,10 +363,20 @@ mod tests {
     fn round_trip_keeps_every_entry() {
         let (lex, n) = sample();
         let bytes = lex.to_compiled(&["t.tsv".into()]);
-        let back = load("x", IndexBytes::owned(bytes), &normalizer_fingerprint(&n)).unwrap();
+        let back = load(
+            "x",
+            IndexBytes::owned(bytes),
+            Some(&normalizer_fingerprint(&n)),
+        )
+        .unwrap();
         assert_eq!(back.len(), lex.len());
         for id in 0..lex.len() {
-            assert_eq!(back.entry(id), lex.entry(id));
+            let (a, b) = (back.entry(id), lex.entry(id));
+            assert_eq!(
+                (&a.key, &a.form, &a.readings),
+                (&b.key, &b.form, &b.readings)
+            );
+            assert!((a.frequency - b.frequency).abs() <= b.frequency * 1e-6);
         }
         let c = back.step_str(back.root(), "arbeit").unwrap();
         assert_eq!(back.entry(back.entry_at(c).unwrap()).form, "Arbeit");
@@ -376,7 +390,7 @@ mod tests {
         let err = load(
             "x.jlex",
             IndexBytes::owned(bytes),
-            &normalizer_fingerprint(&Normalizer::default()),
+            Some(&normalizer_fingerprint(&Normalizer::default())),
         )
         .unwrap_err();
         assert!(err.to_string().contains("rebuild"), "{err}");
@@ -388,12 +402,12 @@ mod tests {
         let fp = normalizer_fingerprint(&n);
         let bytes = lex.to_compiled(&[]);
         for cut in [0, 8, 12, 20, bytes.len() / 2, bytes.len() - 1] {
-            let err = load("x", IndexBytes::owned(bytes[..cut].to_vec()), &fp).unwrap_err();
+            let err = load("x", IndexBytes::owned(bytes[..cut].to_vec()), Some(&fp)).unwrap_err();
             assert!(err.to_string().contains("rebuild"), "cut {cut}: {err}");
         }
         let mut stale = bytes.clone();
         stale[8] = 9;
-        assert!(load("x", IndexBytes::owned(stale), &fp)
+        assert!(load("x", IndexBytes::owned(stale), Some(&fp))
             .unwrap_err()
             .to_string()
             .contains("version 9"));

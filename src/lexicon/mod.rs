@@ -185,7 +185,25 @@ impl LexiconBuilder {
             file: name.clone(),
             source,
         })?;
+        if compiled::is_compiled(&bytes) {
+            // A compiled lexicon given with other sources: its entries are
+            // re-normalized the way this builder normalizes.
+            let lexicon = compiled::load(&name, IndexBytes::owned(bytes), None)?;
+            self.add_lexicon(&lexicon);
+            return Ok(());
+        }
         self.add_tsv(&name, &bytes)
+    }
+
+    /// Adds every entry of another lexicon (each reading separately), by its
+    /// display spelling, so that this builder's normalization applies.
+    pub fn add_lexicon(&mut self, lexicon: &Lexicon) {
+        for e in lexicon.entries() {
+            for (i, r) in e.readings.iter().enumerate() {
+                let frequency = if i == 0 { Some(e.frequency) } else { None };
+                self.add(&e.form, frequency, r.clone());
+            }
+        }
     }
 
     /// Builds the index.
@@ -500,7 +518,7 @@ impl Lexicon {
             })?;
             if compiled::is_compiled(&bytes) {
                 return Ok((
-                    compiled::load(&name, IndexBytes::owned(bytes), &fingerprint)?,
+                    compiled::load(&name, IndexBytes::owned(bytes), Some(&fingerprint))?,
                     Vec::new(),
                 ));
             }
