@@ -1063,3 +1063,72 @@ fn cli_splits_devanagari_with_the_json_shape_and_transliteration() {
     let out = common::run_args(&["split", "--rules", "demo", "--script", "hk", "tormek"]);
     assert_eq!(out.status.code(), Some(2));
 }
+
+// ------------------------------------------------------------------ user lexicons
+
+#[test]
+fn user_stems_expand_into_a_lexicon_for_split() {
+    let dir = std::env::temp_dir().join(format!("juncture-sanskrit-{}", std::process::id()));
+    std::fs::create_dir_all(&dir).unwrap();
+    let stems = dir.join("stems.tsv");
+    std::fs::write(&stems, "kṣīra\ta-n\tpos=noun;gloss=milk\n").unwrap();
+    let lexicon = dir.join("forms.tsv");
+    let out = common::run_args(&[
+        "lexicon",
+        "expand",
+        stems.to_str().unwrap(),
+        "-o",
+        lexicon.to_str().unwrap(),
+    ]);
+    assert!(out.status.success(), "{}", common::stderr(&out));
+    let text = std::fs::read_to_string(&lexicon).unwrap();
+    // The stem as a compound first member, and the inflected forms.
+    assert!(
+        text.contains("kṣīra\t\tstem=kṣīra;class=a-n;pos=noun;role=first;gloss=milk;final=vowel")
+    );
+    assert!(
+        text.contains("kṣīreṇa\t\t") || text.contains("kṣīreṇa\t"),
+        "nati in ins. sg."
+    );
+    // A compound of a user stem and a bundled word, then a phrase junction.
+    let out = common::run_args(&[
+        "split",
+        "--rules",
+        "sanskrit",
+        "--lexicon",
+        lexicon.to_str().unwrap(),
+        "--format",
+        "jsonl",
+        "-k",
+        "1",
+        "kṣīrasamudre 'pi",
+    ]);
+    assert!(out.status.success(), "{}", common::stderr(&out));
+    let v: serde_json::Value = serde_json::from_str(common::stdout(&out).trim()).unwrap();
+    let forms: Vec<&str> = v["analyses"][0]["parts"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .map(|p| p["form"].as_str().unwrap())
+        .collect();
+    assert_eq!(forms, ["kṣīra", "samudre", "api"]);
+    // A plain form list (no tags) works for phrases too.
+    let plain = dir.join("plain.tsv");
+    std::fs::write(&plain, "kṣīram\n").unwrap();
+    let out = common::run_args(&[
+        "split",
+        "--rules",
+        "sanskrit",
+        "--lexicon",
+        plain.to_str().unwrap(),
+        "-f",
+        "tsv",
+        "kṣīram iha",
+    ]);
+    assert!(
+        common::stdout(&out).contains("kṣīram+iha"),
+        "{}",
+        common::stdout(&out)
+    );
+    let _ = std::fs::remove_dir_all(&dir);
+}

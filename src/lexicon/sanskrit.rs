@@ -68,10 +68,15 @@ const STEMS: &[(&str, &str)] = &[
 /// An error names the file and line of the paradigm data that failed.
 pub fn tsv() -> Result<&'static str, String> {
     static TEXT: OnceLock<Result<String, String>> = OnceLock::new();
-    TEXT.get_or_init(build)
+    TEXT.get_or_init(|| expand(PARADIGMS, STEMS))
         .as_ref()
         .map(String::as_str)
         .map_err(Clone::clone)
+}
+
+/// The bundled paradigm tables (`lexicons/sanskrit/paradigms.yaml`).
+pub fn bundled_paradigms() -> &'static str {
+    PARADIGMS
 }
 
 /// The form a nominal stem takes as a compound first member.
@@ -113,9 +118,13 @@ fn clean(value: &str) -> String {
         .to_string()
 }
 
-fn build() -> Result<String, String> {
-    let tables = ParadigmTables::from_yaml(PARADIGMS)
-        .map_err(|e| format!("lexicons/sanskrit/paradigms.yaml: {e}"))?;
+/// Expands stem files (`stem<TAB>class<TAB>tags`, given as (name, text))
+/// with paradigm tables (YAML text) into lexicon TSV text, adding compound
+/// stems and the tags `bound`, `final` and `pragrhya` as described in the
+/// module documentation. `juncture lexicon expand` writes this for user stems.
+pub fn expand(paradigms: &str, files: &[(&str, &str)]) -> Result<String, String> {
+    let tables =
+        ParadigmTables::from_yaml(paradigms).map_err(|e| format!("paradigm tables: {e}"))?;
     // form → readings (tag lists), in first-seen order of forms.
     let mut order: Vec<String> = Vec::new();
     let mut readings: BTreeMap<String, Vec<Vec<(String, String)>>> = BTreeMap::new();
@@ -128,7 +137,7 @@ fn build() -> Result<String, String> {
             list.push(tags);
         }
     };
-    for (file, text) in STEMS {
+    for (file, text) in files {
         let lines = parse_stems(text).map_err(|e| format!("{file}: {e}"))?;
         for line in &lines {
             let forms = tables
@@ -155,7 +164,9 @@ fn build() -> Result<String, String> {
         }
     }
     let mut out = String::with_capacity(order.len() * 80);
-    out.push_str("# juncture: the bundled Sanskrit lexicon, generated (src/lexicon/sanskrit.rs)\n");
+    out.push_str(
+        "# juncture: Sanskrit forms expanded from paradigm tables (src/lexicon/sanskrit.rs)\n",
+    );
     for form in &order {
         let list = &readings[form];
         let all = |key: &str, value: &str| {
