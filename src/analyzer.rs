@@ -108,10 +108,24 @@ impl<'a> Analyzer<'a> {
 
     /// Analyses one input: exact count and the `top` best analyses, each verified.
     pub fn split(&self, input: &str, top: usize) -> SplitRecord {
+        let started = Instant::now();
         let lattice = self.lattice(input);
         let count = search::count(&lattice, self.search.max_parts);
+        // The time limit covers the ranked search too: when building the
+        // lattice used it up, nothing is listed (the count is still exact
+        // for the lattice built).
+        if self.timeout.is_some_and(|t| started.elapsed() > t) {
+            return self.record(input, &lattice, count, Vec::new(), Some(Truncation::Time));
+        }
         let (paths, cut) = search::best(&lattice, self.rules, self.lexicon, &self.search, top);
-        self.record(input, &lattice, count, paths, cut)
+        let parts_cut = self.search.max_parts > 0 && search::count(&lattice, 0) > count;
+        let mut record = self.record(input, &lattice, count, paths, cut);
+        if parts_cut && record.reason.is_none() {
+            // Only analyses within the part limit are counted and listed.
+            record.truncated = true;
+            record.reason = Some(Truncation::Parts);
+        }
+        record
     }
 
     /// The greedy longest-match segmentation (a baseline): at each position

@@ -84,6 +84,8 @@ pub enum Truncation {
     Limit,
     /// The best-first search reached its work limit.
     SearchSize,
+    /// Analyses with more parts than `max-parts` exist and are left out.
+    Parts,
 }
 
 impl Truncation {
@@ -101,6 +103,9 @@ impl Truncation {
             }
             Truncation::Limit => "more analyses exist than were listed (--top / --limit)",
             Truncation::SearchSize => "the ranked search reached its work limit",
+            Truncation::Parts => {
+                "analyses with more parts than the part limit (--max-parts) exist and are left out"
+            }
         }
     }
 }

@@ -81,6 +81,7 @@ fn topological(lattice: &Lattice) -> Vec<NodeIndex> {
 pub fn count(lattice: &Lattice, max_parts: usize) -> BigUint {
     let order = topological(lattice);
     let g = &lattice.graph;
+    let max_parts = part_limit(lattice, &order, max_parts);
     if max_parts == 0 {
         let mut counts: Vec<BigUint> = vec![BigUint::zero(); g.node_count()];
         counts[lattice.end.index()] = BigUint::one();
@@ -124,6 +125,18 @@ pub fn count(lattice: &Lattice, max_parts: usize) -> BigUint {
     counts[lattice.start.index()]
         .iter()
         .fold(BigUint::zero(), |a, b| a + b)
+}
+
+/// The part limit that constrains this lattice: 0 (none) when no path has
+/// more than `max_parts` parts anyway. Counting and ranking under a limit
+/// keep a row of `max_parts + 1` values per node, so an enormous limit
+/// (`--max-parts 1000000`) must not be taken literally.
+fn part_limit(lattice: &Lattice, order: &[NodeIndex], max_parts: usize) -> usize {
+    if max_parts == 0 || max_parts >= max_parts_on_paths(lattice, order) {
+        0
+    } else {
+        max_parts
+    }
 }
 
 /// How the part count constrains a search.
@@ -375,10 +388,11 @@ pub fn best(
     };
     match options.ranking {
         Ranking::Probability => {
-            let layering = if options.max_parts == 0 {
+            let limit = part_limit(lattice, &topological(lattice), options.max_parts);
+            let layering = if limit == 0 {
                 Layering::Free
             } else {
-                Layering::AtMost(options.max_parts)
+                Layering::AtMost(limit)
             };
             let (paths, cut) = best_first(lattice, &weights, layering, k, options.max_pops);
             (paths, cut.then_some(Truncation::SearchSize))

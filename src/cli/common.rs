@@ -7,6 +7,8 @@ use juncture::output::Format;
 use juncture::rules::{compile_named, CompileOptions, RuleSet};
 use std::io::{self, BufRead, Write};
 use std::path::PathBuf;
+use std::sync::atomic::{AtomicBool, Ordering};
+use std::sync::{Mutex, Once};
 
 /// Why a command stopped early.
 pub enum Failure {
@@ -126,17 +128,87 @@ impl Source {
 }
 
 /// One input line: text, or the reason it could not be read.
-pub type InputLine = Result<String, String>;
+pub type InputLine = Result<String, BadLine>;
+
+/// A line of standard input that is not UTF-8.
+#[derive(Debug, Clone)]
+pub struct BadLine {
+    /// The line with every invalid byte sequence replaced by U+FFFD, so that
+    /// its record can still be matched up with the input.
+    pub lossy: String,
+    /// Why it could not be read.
+    pub reason: String,
+}
+
+impl std::fmt::Display for BadLine {
+    fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+        f.write_str(&self.reason)
+    }
+}
+
+impl From<BadLine> for String {
+    fn from(b: BadLine) -> String {
+        b.reason
+    }
+}
+
+/// Exit status after Ctrl-C (SIGINT): 128 + 2, as shells report it.
+pub const EXIT_INTERRUPTED: i32 = 130;
+
+/// Set by the SIGINT handler.
+static INTERRUPTED: AtomicBool = AtomicBool::new(false);
+/// Held while one input is analysed and its record written, so that an
+/// interrupt never cuts a record in half.
+static RECORD: Mutex<()> = Mutex::new(());
+
+/// Installs the SIGINT handler (once). On Ctrl-C the record being written is
+/// finished and flushed, then the process exits with [`EXIT_INTERRUPTED`]:
+/// every line written so far is complete. When no record is in progress
+/// (e.g. waiting for input) it exits at once.
+fn install_interrupt_handler() {
+    static ONCE: Once = Once::new();
+    ONCE.call_once(|| {
+        // Fails only when a handler is installed already; then that one rules.
+        let _ = ctrlc::set_handler(|| {
+            INTERRUPTED.store(true, Ordering::SeqCst);
+            // Waits for the record in progress; the input loop itself exits
+            // (holding the lock) if it sees the flag first, so only one
+            // thread ever calls exit.
+            let _guard = RECORD.lock().unwrap_or_else(|e| e.into_inner());
+            std::process::exit(EXIT_INTERRUPTED);
+        });
+    });
+}
+
+/// Runs `each` for one input while holding the record lock, then exits if
+/// Ctrl-C came meanwhile.
+fn one_record(
+    line: InputLine,
+    each: &mut impl FnMut(InputLine) -> Result<(), Failure>,
+) -> Result<(), Failure> {
+    let _guard = RECORD.lock().unwrap_or_else(|e| e.into_inner());
+    let result = each(line);
+    if INTERRUPTED.load(Ordering::SeqCst) {
+        // The record is written and flushed (RecordWriter::write flushes).
+        std::process::exit(EXIT_INTERRUPTED);
+    }
+    result
+}
 
 /// Calls `each` for every input: the arguments if any, else the lines of stdin
-/// (read as bytes, so a line that is not UTF-8 is reported, not fatal).
+/// (read as bytes, so a line that is not UTF-8 is reported, not fatal). A line
+/// ends at `\n`; one `\r` before it is dropped too (CRLF files), any other
+/// byte, NUL and lone `\r` included, is part of the line.
+///
+/// Ctrl-C stops the loop after the current record (exit status 130).
 pub fn for_each_input(
     args: &[String],
     mut each: impl FnMut(InputLine) -> Result<(), Failure>,
 ) -> Result<(), Failure> {
+    install_interrupt_handler();
     if !args.is_empty() {
         for a in args {
-            each(Ok(a.clone()))?;
+            one_record(Ok(a.clone()), &mut each)?;
         }
         return Ok(());
     }
@@ -155,13 +227,17 @@ pub fn for_each_input(
         if buf.last() == Some(&b'\r') {
             buf.pop();
         }
-        match std::str::from_utf8(&buf) {
-            Ok(s) => each(Ok(s.to_string()))?,
-            Err(e) => each(Err(format!(
-                "the line is not valid UTF-8 (bad byte at offset {})",
-                e.valid_up_to()
-            )))?,
-        }
+        let line = match std::str::from_utf8(&buf) {
+            Ok(s) => Ok(s.to_string()),
+            Err(e) => Err(BadLine {
+                lossy: String::from_utf8_lossy(&buf).into_owned(),
+                reason: format!(
+                    "the line is not valid UTF-8 (bad byte at offset {})",
+                    e.valid_up_to()
+                ),
+            }),
+        };
+        one_record(line, &mut each)?;
     }
     Ok(())
 }

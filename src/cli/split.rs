@@ -185,7 +185,7 @@ pub fn run(args: SplitArgs) -> Result<i32, Failure> {
         let record = match line {
             Ok(text) if args.greedy => analyzer.split_greedy(&text),
             Ok(text) => analyzer.split(&text, k),
-            Err(why) => SplitRecord::failed("", why),
+            Err(bad) => SplitRecord::failed(bad.lossy, bad.reason),
         };
         if record.is_failure() {
             failed += 1;

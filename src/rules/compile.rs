@@ -24,6 +24,11 @@ pub const MAX_INSTANCES_PER_RULE: usize = 100_000;
 pub const MAX_INSTANCES: usize = 500_000;
 /// Deepest include nesting.
 pub const MAX_INCLUDE_DEPTH: usize = 16;
+/// Deepest nesting of classes made of classes (`class a = [b]`, `class b = [c]`, …).
+pub const MAX_CLASS_DEPTH: usize = 64;
+/// Most class members in all classes of a rule-set together (after
+/// expanding class references), so doubling classes cannot exhaust memory.
+pub const MAX_CLASS_MEMBERS: usize = 1_000_000;
 
 /// Options for compiling a rule-set.
 #[derive(Debug, Clone, Default)]
@@ -593,9 +598,14 @@ fn resolve_classes(
     }
     let mut done: BTreeMap<String, ResolvedClass> = BTreeMap::new();
     let names: Vec<String> = decls.keys().cloned().collect();
+    let mut budget = MAX_CLASS_MEMBERS;
     for name in names {
         let mut visiting = Vec::new();
-        resolve_class(cx, &name, &decls, &mut done, &mut visiting, normalizer);
+        let mut walk = ClassWalk {
+            visiting: &mut visiting,
+            budget: &mut budget,
+        };
+        resolve_class(cx, &name, &decls, &mut done, &mut walk, normalizer);
     }
     done.into_iter()
         .map(|(name, c)| {
@@ -612,27 +622,56 @@ fn resolve_classes(
         .collect()
 }
 
+/// The state of one walk through class references: the classes being
+/// resolved (innermost last) and how many members all classes may still have.
+struct ClassWalk<'a> {
+    visiting: &'a mut Vec<String>,
+    budget: &'a mut usize,
+}
+
 fn resolve_class(
     cx: &mut Context,
     name: &str,
     decls: &BTreeMap<String, &ClassDecl>,
     done: &mut BTreeMap<String, ResolvedClass>,
-    visiting: &mut Vec<String>,
+    walk: &mut ClassWalk,
     normalizer: &Normalizer,
 ) -> Option<Vec<String>> {
     if let Some(c) = done.get(name) {
         return Some(c.members.clone());
     }
     let decl = decls.get(name)?;
+    let visiting = &mut *walk.visiting;
     if visiting.iter().any(|v| v == name) {
+        return None;
+    }
+    if visiting.len() >= MAX_CLASS_DEPTH {
+        // Reported once: every deeper class of the chain would repeat it.
+        if !cx.diagnostics.iter().any(|d| d.code == "class-depth") {
+            cx.error(
+                "class-depth",
+                format!(
+                    "classes nest deeper than {MAX_CLASS_DEPTH} levels: {} → … → `{name}`",
+                    visiting[0]
+                ),
+                decl.name.span,
+                Some("list the members of some class directly instead of through other classes".into()),
+            );
+        }
         return None;
     }
     visiting.push(name.to_string());
     let mut members = Vec::new();
+    let mut too_large = false;
     for m in &decl.members {
+        if members.len() >= *walk.budget {
+            too_large = true;
+            break;
+        }
         match m {
             ClassMember::Segment(s) => members.push(normalizer.normalize(&s.value)),
             ClassMember::Class(r) => {
+                let visiting = &*walk.visiting;
                 if visiting.iter().any(|v| v == &r.value) {
                     let chain = visiting
                         .iter()
@@ -657,13 +696,29 @@ fn resolve_class(
                     );
                     continue;
                 }
-                if let Some(sub) = resolve_class(cx, &r.value, decls, done, visiting, normalizer) {
+                if let Some(sub) = resolve_class(cx, &r.value, decls, done, walk, normalizer) {
+                    if members.len() + sub.len() > *walk.budget {
+                        too_large = true;
+                        break;
+                    }
                     members.extend(sub);
                 }
             }
         }
     }
-    visiting.pop();
+    walk.visiting.pop();
+    if too_large {
+        cx.error(
+            "class-too-large",
+            format!(
+                "class `{name}` takes the classes of this rule-set past {MAX_CLASS_MEMBERS} members in all"
+            ),
+            decl.name.span,
+            Some("classes made of classes multiply quickly: list fewer members".into()),
+        );
+        members.clear();
+    }
+    *walk.budget -= members.len();
     let location = cx.sources.locate(decl.name.span);
     done.insert(
         name.to_string(),

@@ -18,14 +18,23 @@ pub struct SourceFile {
     pub name: String,
     /// The text.
     pub text: String,
+    /// Byte offset where each line starts (so locating a span does not
+    /// rescan the file: a rule file of many thousand lines compiles in
+    /// linear time).
+    line_starts: Vec<usize>,
 }
 
 impl SourceMap {
     /// Adds a file and returns its index.
     pub fn add(&mut self, name: impl Into<String>, text: impl Into<String>) -> usize {
+        let text = text.into();
+        let line_starts = std::iter::once(0)
+            .chain(text.match_indices('\n').map(|(i, _)| i + 1))
+            .collect();
         self.files.push(SourceFile {
             name: name.into(),
-            text: text.into(),
+            text,
+            line_starts,
         });
         self.files.len() - 1
     }
@@ -44,11 +53,14 @@ impl SourceMap {
     pub fn locate(&self, span: Span) -> Location {
         let file = &self.files[span.file];
         let start = span.start.min(file.text.len());
-        let line_start = file.text[..start].rfind('\n').map_or(0, |i| i + 1);
-        let line_end = file.text[start..]
-            .find('\n')
-            .map_or(file.text.len(), |i| start + i);
-        let line = file.text[..start].matches('\n').count() + 1;
+        // Index of the line holding `start`: the last line start ≤ start.
+        let line_index = file.line_starts.partition_point(|&s| s <= start) - 1;
+        let line_start = file.line_starts[line_index];
+        let line_end = file
+            .line_starts
+            .get(line_index + 1)
+            .map_or(file.text.len(), |&next| next - 1);
+        let line = line_index + 1;
         let column = file.text[line_start..start].chars().count() + 1;
         let end = span.end.clamp(start, line_end.max(start));
         let width = file.text[start..end].chars().count().max(1);
