@@ -302,7 +302,10 @@ impl Builder {
                 let from = inner.next().expect("grammar: fold source");
                 let to = inner.next().expect("grammar: fold target");
                 Statement::Variant(VariantDecl {
-                    name: Spanned { value: String::new(), span },
+                    name: Spanned {
+                        value: String::new(),
+                        span,
+                    },
                     description: None,
                     from: self.spanned(&from, from.as_str().to_string()),
                     to: self.spanned(&to, to.as_str().to_string()),
@@ -511,7 +514,14 @@ impl Builder {
             notes: Vec::new(),
             span,
         };
-        for clause in inner {
+        let clauses = inner.flat_map(|p| match p.as_rule() {
+            Rule::continuation => p
+                .into_inner()
+                .flat_map(|q| q.into_inner())
+                .collect::<Vec<_>>(),
+            _ => vec![p],
+        });
+        for clause in clauses {
             let cspan = self.span(&clause);
             match clause.as_rule() {
                 Rule::cost_clause => {
