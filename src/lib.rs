@@ -25,6 +25,7 @@
 #![deny(missing_docs)]
 
 pub mod analyzer;
+pub mod cache;
 pub mod check;
 pub mod eval;
 pub mod explain;

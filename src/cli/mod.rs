@@ -6,6 +6,7 @@ mod explain;
 mod induce;
 mod eval;
 mod join;
+mod lexicon_cmd;
 mod rules_cmd;
 mod split;
 
@@ -57,6 +58,8 @@ enum Command {
     Induce(induce::InduceArgs),
     /// Score splits against a gold file.
     Eval(eval::EvalArgs),
+    /// Build a compiled lexicon index, or describe one.
+    Lexicon(lexicon_cmd::LexiconArgs),
 }
 
 /// Parses the command line and runs it; returns the exit status.
@@ -77,6 +80,7 @@ pub fn run() -> i32 {
         Command::Explain(args) => explain::run(args),
         Command::Induce(args) => induce::run(args),
         Command::Eval(args) => eval::run(args),
+        Command::Lexicon(args) => lexicon_cmd::run(args),
     };
     match result {
         Ok(code) => code,

@@ -418,7 +418,7 @@ fn read_settings(cx: &mut Context, statements: &[&Statement], options: &CompileO
                     description: v.description.clone(),
                     from: v.from.value.clone(),
                     to: v.to.value.clone(),
-                    selected: options.variants.iter().any(|n| n == &v.name.value),
+                    selected: v.name.value.is_empty() || options.variants.iter().any(|n| n == &v.name.value),
                 });
             }
             _ => {}
