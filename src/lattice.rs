@@ -189,6 +189,8 @@ pub struct Lattice {
     pub boundaries: Vec<bool>,
     /// Set when the lattice is incomplete.
     pub truncated: Option<Truncation>,
+    /// Every node in topological order (start first, end last).
+    pub order: Vec<NodeIndex>,
 }
 
 impl Lattice {
@@ -260,6 +262,7 @@ pub fn build(rules: &RuleSet, lexicon: &Lexicon, input: &str, options: &LatticeO
     let end = graph.add_node(Node::End);
     if n > options.max_input_chars {
         return Lattice {
+            order: vec![start, end],
             graph,
             start,
             end,
@@ -308,7 +311,9 @@ pub fn build(rules: &RuleSet, lexicon: &Lexicon, input: &str, options: &LatticeO
         }
     }
     let truncated = b.truncated;
+    let order = topological_order(rules, &b.graph);
     Lattice {
+        order,
         graph: b.graph,
         start,
         end,
@@ -316,6 +321,27 @@ pub fn build(rules: &RuleSet, lexicon: &Lexicon, input: &str, options: &LatticeO
         boundaries: b.bounds,
         truncated,
     }
+}
+
+/// Nodes sorted by surface position; at one position, joints whose junction
+/// prints nothing come before part nodes, which come before the other joints.
+/// Every edge goes forward in this order (see the module docs), so it is a
+/// topological order, found without a graph search.
+fn topological_order(rules: &RuleSet, graph: &DiGraph<Node, Edge>) -> Vec<NodeIndex> {
+    let mut order: Vec<NodeIndex> = graph.node_indices().collect();
+    order.sort_by_key(|&i| match &graph[i] {
+        Node::Part { pos, .. } => (*pos, 1),
+        Node::Joint { pos, instance } => (
+            *pos,
+            if rules.instances[*instance].surface_chars() == 0 {
+                0
+            } else {
+                2
+            },
+        ),
+        Node::End => (usize::MAX, 3),
+    });
+    order
 }
 
 impl Builder<'_> {

@@ -70,10 +70,20 @@ pub struct ScoredPath {
 /// Nodes in topological order (start first). The lattice is acyclic by
 /// construction; should that ever fail, the order is cut where the cycle is.
 fn topological(lattice: &Lattice) -> Vec<NodeIndex> {
-    match petgraph::algo::toposort(&lattice.graph, None) {
-        Ok(order) => order,
-        Err(_) => lattice.graph.node_indices().collect(),
+    if cfg!(debug_assertions) {
+        let mut rank = vec![0usize; lattice.graph.node_count()];
+        for (i, n) in lattice.order.iter().enumerate() {
+            rank[n.index()] = i;
+        }
+        debug_assert!(lattice.graph.edge_indices().all(|e| {
+            let (a, b) = lattice
+                .graph
+                .edge_endpoints(e)
+                .unwrap_or((lattice.start, lattice.end));
+            rank[a.index()] < rank[b.index()]
+        }));
     }
+    lattice.order.clone()
 }
 
 /// Exact number of analyses (paths from start to end), optionally with at

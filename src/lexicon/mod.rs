@@ -538,28 +538,25 @@ impl Lexicon {
 /// Evaluates a tag condition against a form and its readings. The key `form`
 /// tests the normalized form itself.
 pub fn condition_holds(condition: &Condition, key: &str, readings: &[Tags]) -> bool {
-    let value_of = |r: &Tags| -> Option<String> {
-        if condition.key == "form" {
-            Some(key.to_string())
-        } else {
-            r.get(&condition.key).cloned()
-        }
+    fn value_of<'t>(r: &'t Tags, key: &str) -> Option<&'t str> {
+        r.get(key).map(String::as_str)
+    }
+    let is_form = condition.key == "form";
+    let matches = |v: &str| match &condition.test {
+        Some((_, values)) => v.split('|').any(|x| values.iter().any(|w| w == x)),
+        None => true,
     };
-    let any_reading = |f: &dyn Fn(Option<String>) -> bool| -> bool {
-        if readings.is_empty() {
-            f(value_of(&Tags::new()))
-        } else {
-            readings.iter().any(|r| f(value_of(r)))
-        }
+    let test = |v: Option<&str>| v.is_some_and(matches);
+    let any = if is_form {
+        test(Some(key))
+    } else if readings.is_empty() {
+        false
+    } else {
+        readings.iter().any(|r| test(value_of(r, &condition.key)))
     };
     match &condition.test {
-        None => any_reading(&|v| v.is_some()),
-        Some((true, values)) => {
-            any_reading(&|v| v.is_some_and(|v| v.split('|').any(|x| values.iter().any(|w| w == x))))
-        }
-        Some((false, values)) => !any_reading(&|v| {
-            v.is_some_and(|v| v.split('|').any(|x| values.iter().any(|w| w == x)))
-        }),
+        Some((false, _)) => !any,
+        _ => any,
     }
 }
 
