@@ -237,7 +237,7 @@ struct Builder<'a> {
     chars: Vec<char>,
     original_upper: Vec<bool>,
     bounds: Vec<bool>,
-    matches_at: Vec<Vec<(usize, usize)>>,
+    matches_at: Vec<std::rc::Rc<Vec<(usize, usize)>>>,
     graph: DiGraph<Node, Edge>,
     nodes: HashMap<Node, NodeIndex>,
     parts_at: Vec<Vec<NodeIndex>>,
@@ -283,7 +283,7 @@ pub fn build(rules: &RuleSet, lexicon: &Lexicon, input: &str, options: &LatticeO
         rules,
         lexicon,
         options,
-        matches_at: vec![Vec::new(); n + 1],
+        matches_at: Vec::new(),
         chars,
         original_upper,
         bounds,
@@ -345,24 +345,32 @@ fn topological_order(rules: &RuleSet, graph: &DiGraph<Node, Edge>) -> Vec<NodeIn
 }
 
 impl Builder<'_> {
+    /// For every position, the junction instances whose surface starts there,
+    /// grouped by their underlying left end within each surface (the rule-set's
+    /// surface index keeps them so), so each left end is walked once.
     fn find_junctions(&mut self) {
         let n = self.chars.len();
         let max = self.rules.max_surface_chars();
+        let mut surface = String::new();
         for q in 0..=n {
-            if !self.bounds[q] {
-                continue;
-            }
-            for len in 0..=max.min(n - q) {
-                if !self.bounds[q + len] {
-                    continue;
-                }
-                let s: String = self.chars[q..q + len].iter().collect();
-                for &i in self.rules.instances_with_surface(&s) {
-                    if self.options.scope.allows(self.rules.instances[i].scope) {
-                        self.matches_at[q].push((i, q + len));
+            let mut here = Vec::new();
+            if self.bounds[q] {
+                surface.clear();
+                for len in 0..=max.min(n - q) {
+                    if len > 0 {
+                        surface.push(self.chars[q + len - 1]);
+                    }
+                    if !self.bounds[q + len] {
+                        continue;
+                    }
+                    for &i in self.rules.instances_with_surface(&surface) {
+                        if self.options.scope.allows(self.rules.instances[i].scope) {
+                            here.push((i, q + len));
+                        }
                     }
                 }
             }
+            self.matches_at.push(std::rc::Rc::new(here));
         }
     }
 
@@ -467,7 +475,6 @@ impl Builder<'_> {
         q: usize,
     ) {
         let n = self.chars.len();
-        let x: String = self.chars[pos..q].iter().collect();
         if q == n {
             if let Some(id) = self.lexicon.entry_at(cursor) {
                 let key = self.lexicon.entry(id).key.clone();
@@ -490,16 +497,26 @@ impl Builder<'_> {
                 }
             }
         }
-        let matches = self.matches_at[q].clone();
-        for (inst_id, after) in matches {
+        let matches = std::rc::Rc::clone(&self.matches_at[q]);
+        // Instances are grouped by left end: walk each left end once.
+        let mut last: Option<(usize, Option<usize>)> = None;
+        for &(inst_id, after) in matches.iter() {
             if after == pos {
                 continue; // nothing read and nothing on the surface: no progress
             }
             let inst = &self.rules.instances[inst_id];
-            let Some(c2) = self.lexicon.step_str(cursor, &inst.left) else {
-                continue;
+            let found = match last {
+                Some((prev, found)) if self.rules.instances[prev].left == inst.left => found,
+                _ => {
+                    let found = self
+                        .lexicon
+                        .step_str(cursor, &inst.left)
+                        .and_then(|c2| self.lexicon.entry_at(c2));
+                    last = Some((inst_id, found));
+                    found
+                }
             };
-            let Some(id) = self.lexicon.entry_at(c2) else {
+            let Some(id) = found else {
                 continue;
             };
             let key = self.lexicon.entry(id).key.clone();
@@ -512,7 +529,6 @@ impl Builder<'_> {
             {
                 continue;
             }
-            let _ = &x;
             let pending_next = (!rule.right_conditions.is_empty()).then_some(inst.rule);
             let edge = WordEdge {
                 source: PartSource::Entry(id),
@@ -617,8 +633,8 @@ impl Builder<'_> {
                     }
                     continue;
                 }
-                let matches = self.matches_at[q].clone();
-                for (inst_id, after) in matches {
+                let matches = std::rc::Rc::clone(&self.matches_at[q]);
+                for &(inst_id, after) in matches.iter() {
                     let inst = &self.rules.instances[inst_id];
                     if !inst.left.is_empty()
                         || !inst.surface_left.is_empty()

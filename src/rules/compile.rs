@@ -418,7 +418,8 @@ fn read_settings(cx: &mut Context, statements: &[&Statement], options: &CompileO
                     description: v.description.clone(),
                     from: v.from.value.clone(),
                     to: v.to.value.clone(),
-                    selected: v.name.value.is_empty() || options.variants.iter().any(|n| n == &v.name.value),
+                    selected: v.name.value.is_empty()
+                        || options.variants.iter().any(|n| n == &v.name.value),
                 });
             }
             _ => {}
@@ -655,7 +656,10 @@ fn resolve_class(
                     visiting[0]
                 ),
                 decl.name.span,
-                Some("list the members of some class directly instead of through other classes".into()),
+                Some(
+                    "list the members of some class directly instead of through other classes"
+                        .into(),
+                ),
             );
         }
         return None;
@@ -1376,6 +1380,10 @@ fn index(set: &mut RuleSet) {
             .entry((inst.left.clone(), inst.right.clone()))
             .or_default()
             .push(i);
+    }
+    let instances = &set.instances;
+    for list in set.surface_index.values_mut() {
+        list.sort_by(|a, b| instances[*a].left.cmp(&instances[*b].left).then(a.cmp(b)));
     }
 }
 
