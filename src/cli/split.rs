@@ -1,12 +1,16 @@
 //! `juncture split`: the main job.
 
-use super::common::{for_each_input, Failure, FormatArg, RecordWriter, ScopeArg, Source};
+use super::common::{
+    for_each_input, Failure, FormatArg, InputLine, RecordWriter, ScopeArg, Source,
+};
 use super::{EXIT_OK, EXIT_SOME_FAILED};
 use clap::{Args, ValueEnum};
 use juncture::analyzer::{index_tokens, Analyzer, SplitRecord, TokenRecord};
 use juncture::output::{self, Format, TermsOptions};
 use juncture::script::Script;
 use juncture::scripted;
+use std::collections::HashMap;
+use std::sync::Arc;
 use std::time::Duration;
 
 /// Split words or lines into their parts.
@@ -100,6 +104,13 @@ pub struct SplitArgs {
     /// Give the greedy longest-match segmentation instead (a baseline to compare against).
     #[arg(long)]
     pub greedy: bool,
+    /// Worker threads for a batch of lines (output keeps input order).
+    #[arg(long, short = 'j', default_value_t = 1, value_name = "N")]
+    pub jobs: usize,
+    /// Distinct inputs remembered per worker, so repeated words (natural text
+    /// repeats heavily) are analysed once; 0 turns the cache off.
+    #[arg(long, default_value_t = 100_000, value_name = "N")]
+    pub cache: usize,
     /// Script of the input, for rule-sets written in a transliteration
     /// (`set script`: Sanskrit); `auto` detects it line by line. The input is
     /// transliterated before analysis; offsets count characters of that
@@ -163,6 +174,12 @@ pub fn run(args: SplitArgs) -> Result<i32, Failure> {
     }
     let mut writer = RecordWriter::new(args.format.format());
     let mut failed = 0usize;
+    let jobs = args.jobs.max(1);
+    // One line at a time for a single worker (streaming, flushed per line);
+    // blocks of lines for several.
+    let batch_size = if jobs == 1 { 1 } else { 256 * jobs };
+    let mut batch: Vec<InputLine> = Vec::with_capacity(batch_size);
+    let mut caches: Vec<HashMap<String, Arc<SplitRecord>>> = vec![HashMap::new(); jobs];
     for_each_input(&args.words, |line| {
         if let (Some(analysed), Ok(text)) = (analysed, &line) {
             let to = args.output_script.and_then(ScriptArg::script);
@@ -182,20 +199,13 @@ pub fn run(args: SplitArgs) -> Result<i32, Failure> {
                 || output::split_tsv(&record.record),
             );
         }
-        let record = match line {
-            Ok(text) if args.greedy => analyzer.split_greedy(&text),
-            Ok(text) => analyzer.split(&text, k),
-            Err(bad) => SplitRecord::failed(bad.lossy, bad.reason),
-        };
-        if record.is_failure() {
-            failed += 1;
+        batch.push(line);
+        if batch.len() >= batch_size {
+            failed += flush_batch(&mut batch, &mut caches, &analyzer, &args, k, &mut writer)?;
         }
-        writer.write(
-            &record,
-            || output::split_text(&record),
-            || output::split_tsv(&record),
-        )
+        Ok(())
     })?;
+    failed += flush_batch(&mut batch, &mut caches, &analyzer, &args, k, &mut writer)?;
     writer.finish()?;
     Ok(if failed > 0 {
         EXIT_SOME_FAILED
@@ -315,4 +325,73 @@ fn run_tokens(args: &SplitArgs, analyzer: &Analyzer, k: usize) -> Result<i32, Fa
     } else {
         EXIT_OK
     })
+}
+
+/// Analyses a block of lines on `args.jobs` threads (each with its own type
+/// cache) and writes the records in input order. Returns how many failed.
+fn flush_batch(
+    batch: &mut Vec<InputLine>,
+    caches: &mut [HashMap<String, Arc<SplitRecord>>],
+    analyzer: &Analyzer,
+    args: &SplitArgs,
+    k: usize,
+    writer: &mut RecordWriter,
+) -> Result<usize, Failure> {
+    if batch.is_empty() {
+        return Ok(0);
+    }
+    let lines = std::mem::take(batch);
+    let one =
+        |line: &InputLine, cache: &mut HashMap<String, Arc<SplitRecord>>| -> Arc<SplitRecord> {
+            match line {
+                Ok(text) => {
+                    if let Some(hit) = cache.get(text) {
+                        return Arc::clone(hit);
+                    }
+                    let record = Arc::new(if args.greedy {
+                        analyzer.split_greedy(text)
+                    } else {
+                        analyzer.split(text, k)
+                    });
+                    if args.cache > 0 {
+                        if cache.len() >= args.cache {
+                            cache.clear();
+                        }
+                        cache.insert(text.clone(), Arc::clone(&record));
+                    }
+                    record
+                }
+                Err(bad) => Arc::new(SplitRecord::failed(bad.lossy.clone(), bad.reason.clone())),
+            }
+        };
+    let records: Vec<Arc<SplitRecord>> = if caches.len() <= 1 || lines.len() == 1 {
+        lines.iter().map(|l| one(l, &mut caches[0])).collect()
+    } else {
+        let chunk = lines.len().div_ceil(caches.len());
+        std::thread::scope(|scope| {
+            let handles: Vec<_> = lines
+                .chunks(chunk)
+                .zip(caches.iter_mut())
+                .map(|(part, cache)| {
+                    scope.spawn(move || part.iter().map(|l| one(l, cache)).collect::<Vec<_>>())
+                })
+                .collect();
+            handles
+                .into_iter()
+                .flat_map(|h| h.join().unwrap_or_default())
+                .collect()
+        })
+    };
+    let mut failed = 0;
+    for record in &records {
+        if record.is_failure() {
+            failed += 1;
+        }
+        writer.write(
+            &**record,
+            || output::split_text(record),
+            || output::split_tsv(record),
+        )?;
+    }
+    Ok(failed)
 }
