@@ -507,6 +507,22 @@ pub fn join(
                 }
             })
             .collect();
+        // With case folding the rules work on lowercase text; give the result
+        // the capital the first part was written with (German nouns).
+        let capital = rules.normalizer.fold_case
+            && parts
+                .first()
+                .and_then(|p| p.trim().chars().next())
+                .is_some_and(char::is_uppercase);
+        let surface = if capital {
+            let mut chars = surface.chars();
+            chars
+                .next()
+                .map(|c| c.to_uppercase().chain(chars).collect())
+                .unwrap_or_default()
+        } else {
+            surface
+        };
         result.results.push(Joined {
             rank: rank + 1,
             surface,
