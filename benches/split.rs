@@ -13,7 +13,7 @@
 //!   exact count and top 10.
 //!
 //! Run: `cargo bench --bench split` (set JUNCTURE_BENCH_TOKENS to change the
-//! stream length; default 200,000).
+//! stream length; default 1,000,000 tokens, with 100,000 distinct compound types).
 
 use criterion::{black_box, criterion_group, criterion_main, Criterion, Throughput};
 use juncture::analyzer::Analyzer;
@@ -72,7 +72,7 @@ fn compound_types(rules: &RuleSet, lexicon: &Lexicon, n: usize) -> Vec<String> {
                     .iter()
                     .any(|r| r.get("pos").map(String::as_str) == Some("noun"))
         })
-        .take(5000)
+        .take(20_000)
         .map(|e| e.form.as_str())
         .collect();
     let mut rng = Lcg(7);
@@ -94,10 +94,10 @@ fn bench(c: &mut Criterion) {
     let tokens: usize = std::env::var("JUNCTURE_BENCH_TOKENS")
         .ok()
         .and_then(|v| v.parse().ok())
-        .unwrap_or(200_000);
+        .unwrap_or(1_000_000);
     if let Some((rules, lexicon)) = load("german") {
         let stream = token_stream(&lexicon, tokens);
-        let types = compound_types(&rules, &lexicon, 20_000);
+        let types = compound_types(&rules, &lexicon, 100_000);
         let mut g = c.benchmark_group("german");
         g.sample_size(10);
         g.throughput(Throughput::Elements(stream.len() as u64));
