@@ -132,14 +132,14 @@ pub fn join_text(r: &JoinResult) -> String {
                 )
             })
             .collect();
-        let _ = writeln!(
-            out,
+        let line = format!(
             "  {}. {}    cost {}    {}",
             j.rank,
             j.surface,
             j.cost,
             rules.join(", ")
         );
+        let _ = writeln!(out, "{}", line.trim_end());
     }
     out
 }

@@ -558,10 +558,11 @@ fn enumerate_joins(
     let i = chosen.len();
     if i == candidates.len() {
         if let Ok(surface) = apply(rules, words, chosen) {
+            // Folded from +0.0: an empty `sum()` of f64 is -0.0 (printed `-0`).
             let cost = chosen
                 .iter()
                 .map(|&id| rules.rules[rules.instances[id].rule].cost)
-                .sum();
+                .fold(0.0, |a, c| a + c);
             found.push((cost, chosen.clone(), surface));
         }
         return;
