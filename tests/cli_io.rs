@@ -367,15 +367,7 @@ fn format_tsv_is_one_line_per_input() {
 #[test]
 fn greedy_gives_one_longest_match_analysis() {
     let out = run_args(&[
-        "split",
-        "--rules",
-        "demo",
-        "--greedy",
-        "-f",
-        "jsonl",
-        "tormek",
-        "tammora",
-        "kalom",
+        "split", "--rules", "demo", "--greedy", "-f", "jsonl", "tormek", "tammora", "kalom",
     ]);
     assert_eq!(code(&out), 0, "{}", stderr(&out));
     let records = jsonl(&out);
