@@ -133,6 +133,15 @@ impl<'a> Analyzer<'a> {
     pub fn split_greedy(&self, input: &str) -> SplitRecord {
         let lattice = self.lattice(input);
         let count = search::count(&lattice, self.search.max_parts);
+        // Nodes from which the end can still be reached: the longest match is
+        // taken among the words (and junctions) the rest of the input can follow.
+        let mut alive = vec![false; lattice.graph.node_count()];
+        alive[lattice.end.index()] = true;
+        for &u in lattice.order.iter().rev() {
+            if lattice.graph.edges(u).any(|e| alive[e.target().index()]) {
+                alive[u.index()] = true;
+            }
+        }
         let mut edges = Vec::new();
         let mut node = lattice.start;
         let mut ok = false;
@@ -144,6 +153,7 @@ impl<'a> Analyzer<'a> {
             let best = lattice
                 .graph
                 .edges(node)
+                .filter(|e| alive[e.target().index()])
                 .filter_map(|e| match e.weight() {
                     Edge::Word(w) => Some((w.end, w.key.chars().count(), e.id(), e.target())),
                     Edge::Junction { .. } => None,
@@ -155,7 +165,11 @@ impl<'a> Analyzer<'a> {
             edges.push(id);
             node = target;
             if node != lattice.end {
-                match lattice.graph.edges(node).next() {
+                match lattice
+                    .graph
+                    .edges(node)
+                    .find(|e| alive[e.target().index()])
+                {
                     Some(j) => {
                         edges.push(j.id());
                         node = j.target();
@@ -174,7 +188,13 @@ impl<'a> Analyzer<'a> {
         } else {
             Vec::new()
         };
-        self.record(input, &lattice, count, paths, None)
+        let mut record = self.record(input, &lattice, count, paths, None);
+        // One segmentation is the whole answer of the baseline, not a cut list.
+        if record.reason == Some(Truncation::Limit) {
+            record.reason = None;
+            record.truncated = false;
+        }
+        record
     }
 
     fn record(
@@ -424,8 +444,8 @@ impl Analyzer<'_> {
 /// `.,;:!?…`); hyphens, `%`, `@` and `/` are kept. Empty pieces are dropped.
 pub fn index_tokens(line: &str) -> Vec<&str> {
     const TRIM: &[char] = &[
-        '"', '\'', '(', ')', '[', ']', '{', '}', '<', '>', '«', '»', '„', '“', '”', '‚', '‘',
-        '’', '‹', '›', ',', ';', ':', '!', '?', '.', '…', '¡', '¿', '*',
+        '"', '\'', '(', ')', '[', ']', '{', '}', '<', '>', '«', '»', '„', '“', '”', '‚', '‘', '’',
+        '‹', '›', ',', ';', ':', '!', '?', '.', '…', '¡', '¿', '*',
     ];
     line.split_whitespace()
         .map(|t| t.trim_matches(TRIM))

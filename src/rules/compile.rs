@@ -735,6 +735,16 @@ fn resolve_class(
     Some(members)
 }
 
+/// A slot names neither a class nor a label of its rule.
+fn unknown_slot(cx: &mut Context, name: &str, span: Span, classes: &BTreeMap<String, Class>) {
+    cx.error(
+        "unknown-class",
+        format!("`{name}` is neither a class nor a label of this rule"),
+        span,
+        Some(suggest(name, classes.keys())),
+    );
+}
+
 fn suggest<'a>(name: &str, known: impl Iterator<Item = &'a String>) -> String {
     let known: Vec<&String> = known.collect();
     let close = known
@@ -896,15 +906,7 @@ fn expand_rule(
                         }
                     }
                     let Some(class) = classes.get(&slot.name) else {
-                        cx.error(
-                            "unknown-class",
-                            format!(
-                                "`{}` is neither a class nor a label of this rule",
-                                slot.name
-                            ),
-                            item.span,
-                            Some(suggest(&slot.name, classes.keys())),
-                        );
+                        unknown_slot(cx, &slot.name, item.span, classes);
                         continue;
                     };
                     classes_used.insert(class.name.clone());
@@ -1004,15 +1006,7 @@ fn expand_rule(
                                     Some("a surface slot copies or maps an underlying one; write letters for fixed material".into()),
                                 );
                             } else {
-                                cx.error(
-                                    "unknown-class",
-                                    format!(
-                                        "`{}` is neither a class nor a label of this rule",
-                                        slot.name
-                                    ),
-                                    item.span,
-                                    Some(suggest(&slot.name, classes.keys())),
-                                );
+                                unknown_slot(cx, &slot.name, item.span, classes);
                             }
                             None
                         }
