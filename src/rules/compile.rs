@@ -129,6 +129,7 @@ pub fn compile(
     );
     let patterns = read_patterns(&mut cx, &statements, &classes);
     let (edge_start, edge_end) = read_edges(&mut cx, &statements);
+    check_rule_names(&mut cx, &statements);
     check_duplicates(&mut cx, &expanded);
     let mut examples = expanded.examples;
     for st in &statements {
@@ -1298,6 +1299,28 @@ fn read_edges(cx: &mut Context, statements: &[&Statement]) -> (Vec<Condition>, V
 
 // ------------------------------------------------------------------ pass 5
 
+/// Rule names must be unique, whether or not the rules compiled (so a
+/// duplicate is reported together with the other errors of the first one).
+fn check_rule_names(cx: &mut Context, statements: &[&Statement]) {
+    let mut seen: HashMap<&str, Span> = HashMap::new();
+    for st in statements {
+        let Statement::Rule(rule) = st else { continue };
+        if let Some(first) = seen.get(rule.name.value.as_str()) {
+            let first = cx.sources.locate(*first);
+            let d = Diagnostic::error(
+                "duplicate-rule",
+                format!("rule `{}` is defined twice", rule.name.value),
+                cx.at(rule.name.span),
+            )
+            .with_related("first defined here", first)
+            .with_hint("rule names identify rules in proofs: give each rule its own name");
+            cx.diagnostics.push(d);
+            continue;
+        }
+        seen.insert(&rule.name.value, rule.name.span);
+    }
+}
+
 /// Pass 5: rule names must be unique; two rules with exactly the same
 /// instances, conditions and scope would double every analysis.
 fn check_duplicates(cx: &mut Context, expanded: &Expanded) {
@@ -1316,16 +1339,8 @@ fn check_duplicates(cx: &mut Context, expanded: &Expanded) {
         ));
     }
     for (i, rule) in expanded.rules.iter().enumerate() {
-        if let Some(&first) = by_name.get(rule.name.as_str()) {
-            let d = Diagnostic::error(
-                "duplicate-rule",
-                format!("rule `{}` is defined twice", rule.name),
-                cx.at(expanded.spans[i]),
-            )
-            .with_related("first defined here", expanded.rules[first].location.clone())
-            .with_hint("rule names identify rules in proofs: give each rule its own name");
-            cx.diagnostics.push(d);
-            continue;
+        if by_name.contains_key(rule.name.as_str()) {
+            continue; // reported by check_rule_names
         }
         by_name.insert(&rule.name, i);
         let mut key = per_rule[i].clone();
@@ -1384,4 +1399,51 @@ fn index(set: &mut RuleSet) {
 /// Renders diagnostics as one text block (for messages outside the CLI).
 pub fn render(diagnostics: &Diagnostics) -> String {
     diagnostics.to_string()
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn codes(text: &str) -> Vec<&'static str> {
+        match compile("t.jr", text, None, &CompileOptions::default()) {
+            Ok(_) => Vec::new(),
+            Err(d) => d.0.iter().map(|d| d.code).collect(),
+        }
+    }
+
+    #[test]
+    fn duplicate_rule_is_reported_even_when_the_first_has_errors() {
+        let got = codes("language x\nrule one: [vowle] + -> |\nrule one: + -> |\n");
+        assert!(
+            got.contains(&"unknown-class") && got.contains(&"duplicate-rule"),
+            "{got:?}"
+        );
+    }
+
+    #[test]
+    fn top_level_fold_is_always_applied() {
+        let set = compile(
+            "t.jr",
+            "language x\ncase fold\nfold ß = ss\nrule j: + -> |\n",
+            None,
+            &CompileOptions::default(),
+        )
+        .unwrap();
+        assert_eq!(set.normalizer.normalize("Straße"), "strasse");
+    }
+
+    #[test]
+    fn unindented_example_after_a_rule_is_top_level() {
+        let set = compile(
+            "t.jr",
+            "language x\nrule j: + -> |\n  example a + b -> ab\nexample a + b + c -> abc\n",
+            None,
+            &CompileOptions::default(),
+        )
+        .unwrap();
+        assert_eq!(set.examples.len(), 2);
+        assert_eq!(set.examples[0].rule, Some(0));
+        assert_eq!(set.examples[1].rule, None);
+    }
 }
