@@ -2,9 +2,9 @@
 
 mod check;
 mod common;
+mod eval;
 mod explain;
 mod induce;
-mod eval;
 mod join;
 mod lexicon_cmd;
 mod rules_cmd;

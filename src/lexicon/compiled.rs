@@ -293,11 +293,17 @@ pub fn load(
     r.take(flen).ok_or_else(corrupt)?;
     let rec_start = r.at;
     let rec_len = header.entries.checked_mul(8).ok_or_else(corrupt)?;
-    if all.len() != rec_start + rec_len {
+    if rec_start.checked_add(rec_len) != Some(all.len()) {
         return Err(corrupt());
     }
     let index = fst::Map::new(bytes.slice(fst_start, fst_start + flen)).map_err(|_| corrupt())?;
     if index.len() != header.entries {
+        return Err(corrupt());
+    }
+    // A file from disk may be damaged: walking a corrupt FST panics or loops,
+    // so its checksum is verified first (one pass over the bytes). Lexicons
+    // embedded in the binary are built and tested with it and skip this.
+    if !matches!(bytes.data, Data::Static(_)) && index.as_fst().verify().is_err() {
         return Err(corrupt());
     }
     let lazy = LazyEntries {

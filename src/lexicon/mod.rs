@@ -19,6 +19,12 @@ use compiled::{IndexBytes, LazyEntries};
 use fst::raw::{CompiledAddr, Output};
 use std::collections::{BTreeMap, BTreeSet, HashMap};
 
+/// Largest frequency an entry keeps (larger ones, and sums of duplicates
+/// that overflow, are capped): the compiled format stores frequencies as
+/// 32-bit floats, and a frequency of `1e308` must neither become infinite
+/// there nor make the sum of all frequencies infinite.
+pub const MAX_FREQUENCY: f64 = f32::MAX as f64;
+
 /// Tags of one reading of an entry.
 pub type Tags = BTreeMap<String, String>;
 
@@ -206,7 +212,7 @@ impl LexiconBuilder {
         }
     }
 
-    /// Builds the index.
+    /// Builds the index. Frequencies are capped at [`MAX_FREQUENCY`].
     pub fn build(self) -> Result<Lexicon, LexiconError> {
         let mut keys: Vec<(String, Accumulator)> = self.entries.into_iter().collect();
         keys.sort_by(|a, b| a.0.as_bytes().cmp(b.0.as_bytes()));
@@ -230,7 +236,7 @@ impl LexiconBuilder {
             entries.push(Entry {
                 key,
                 form,
-                frequency: acc.frequency.unwrap_or(1.0).max(0.0),
+                frequency: acc.frequency.unwrap_or(1.0).clamp(0.0, MAX_FREQUENCY),
                 readings,
             });
         }
