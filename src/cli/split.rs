@@ -302,7 +302,7 @@ fn run_tokens(args: &SplitArgs, analyzer: &Analyzer, k: usize) -> Result<i32, Fa
         Ok(text) => one(&text, &mut writer),
         Err(why) => {
             let record = TokenRecord {
-                record: SplitRecord::failed("", why.to_string()),
+                record: SplitRecord::failed(why.lossy, why.reason),
                 passthrough: None,
             };
             failed.set(failed.get() + 1);
