@@ -75,13 +75,24 @@ pub fn split_text(r: &SplitRecord) -> String {
     out
 }
 
-/// A split record as one TSV line: input, count, then for each analysis the
-/// parts joined by `+`, the rules joined by `,`, and the score.
+/// A split record as one TSV line: input, count, then `error: …` or
+/// `truncated: REASON` when a limit other than the number listed cut it, then
+/// for each analysis the parts joined by `+`, the rules joined by `,`, and the score.
 pub fn split_tsv(r: &SplitRecord) -> String {
     let clean = |s: &str| s.replace(['\t', '\n', '\r'], " ");
     let mut cols = vec![clean(&r.input), r.count.to_string()];
     if let Some(e) = &r.error {
         cols.push(format!("error: {}", clean(e)));
+    } else if let Some(reason) = r.reason.filter(|&x| x != crate::lattice::Truncation::Limit) {
+        // A limit other than the number listed cut the search: say which,
+        // in the same place an error would stand.
+        cols.push(format!(
+            "truncated: {}",
+            serde_json::to_value(reason)
+                .ok()
+                .and_then(|v| v.as_str().map(str::to_string))
+                .unwrap_or_default()
+        ));
     }
     for a in &r.analyses {
         cols.push(

@@ -218,3 +218,27 @@ fn extreme_limit_values_do_not_panic() {
         assert!(!stderr.contains("panicked"), "{args:?}: {stderr}");
     }
 }
+
+#[test]
+fn tsv_output_names_a_limit_that_cut_the_search() {
+    let out = std::process::Command::new(env!("CARGO_BIN_EXE_juncture"))
+        .args([
+            "split",
+            "--rules",
+            "demo",
+            "--format",
+            "tsv",
+            "--max-parts",
+            "1",
+            "solanavitor",
+            "tormek",
+        ])
+        .output()
+        .unwrap();
+    let text = String::from_utf8(out.stdout).unwrap();
+    let lines: Vec<&str> = text.lines().collect();
+    assert_eq!(lines.len(), 2);
+    assert_eq!(lines[0], "solanavitor\t0\ttruncated: parts");
+    // The two-part reading is cut by the limit, the whole word stays.
+    assert!(lines[1].starts_with("tormek\t1\ttruncated: parts\ttormek\t"), "{}", lines[1]);
+}
