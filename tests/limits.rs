@@ -240,5 +240,9 @@ fn tsv_output_names_a_limit_that_cut_the_search() {
     assert_eq!(lines.len(), 2);
     assert_eq!(lines[0], "solanavitor\t0\ttruncated: parts");
     // The two-part reading is cut by the limit, the whole word stays.
-    assert!(lines[1].starts_with("tormek\t1\ttruncated: parts\ttormek\t"), "{}", lines[1]);
+    assert!(
+        lines[1].starts_with("tormek\t1\ttruncated: parts\ttormek\t"),
+        "{}",
+        lines[1]
+    );
 }
