@@ -196,6 +196,24 @@ fn rule_words(rule: Rule) -> Option<&'static str> {
     })
 }
 
+/// Reads the optional quoted description after a name (`rule NAME "…":`,
+/// `variant NAME "…":`) and returns it with the pair that follows it.
+fn optional_description<'i>(
+    inner: &mut pest::iterators::Pairs<'i, Rule>,
+) -> (Option<String>, Pair<'i, Rule>) {
+    let next = inner.next().expect("grammar: a body follows the name");
+    if next.as_rule() != Rule::string {
+        return (None, next);
+    }
+    let description = next.into_inner().next().map(|p| p.as_str().to_string());
+    (
+        description,
+        inner
+            .next()
+            .expect("grammar: a body follows the description"),
+    )
+}
+
 struct Builder {
     file: usize,
 }
@@ -313,16 +331,7 @@ impl Builder {
             }
             Rule::variant_decl => {
                 let name = inner.next().expect("grammar: variant name");
-                let mut next = inner.next().expect("grammar: variant body");
-                let mut description = None;
-                if next.as_rule() == Rule::string {
-                    description = next
-                        .clone()
-                        .into_inner()
-                        .next()
-                        .map(|p| p.as_str().to_string());
-                    next = inner.next().expect("grammar: variant fold");
-                }
+                let (description, next) = optional_description(&mut inner);
                 let to = inner.next().expect("grammar: variant fold target");
                 Statement::Variant(VariantDecl {
                     name: self.spanned(&name, name.as_str().to_string()),
@@ -483,16 +492,7 @@ impl Builder {
     fn rule(&self, mut inner: pest::iterators::Pairs<Rule>, span: Span) -> RuleDecl {
         let name = inner.next().expect("grammar: rule name");
         let name = self.spanned(&name, name.as_str().to_string());
-        let mut next = inner.next().expect("grammar: rule body");
-        let mut description = None;
-        if next.as_rule() == Rule::string {
-            description = next
-                .clone()
-                .into_inner()
-                .next()
-                .map(|p| p.as_str().to_string());
-            next = inner.next().expect("grammar: change");
-        }
+        let (description, next) = optional_description(&mut inner);
         let change_span = self.span(&next);
         let mut sides = next.into_inner();
         let left = self.items(sides.next().expect("grammar: left side"));
