@@ -279,29 +279,155 @@ def choose_pos(form, candidates, coarse):
 
 
 class Tagger:
+    """Dutch: one reading per form, from HanTa's tag_word on the lower-case form."""
+
     def __init__(self, lang, model):
         from HanTa import HanoverTagger as ht
         self.lang = lang
         self.t = ht.HanoverTagger(model)
-        self.coarse = coarse_de if lang == "de" else coarse_nl
+        self.coarse = coarse_nl
 
     def _cands(self, word):
         return [(tag, float(lp)) for tag, lp in
                 self.t.tag_word(word, cutoff=6, casesensitive=False)]
 
-    def tag(self, form):
-        cands = self._cands(form)
-        if self.lang == "de" and "ss" in form:
+    def readings(self, form):
+        res = choose_pos(form, self._cands(form), self.coarse)
+        if res is None:
+            return []
+        pos, proper = res
+        return [dict(pos=pos, proper=proper)]
+
+
+# German readings.  wordfreq folds case, so `abend` stands for both `Abend`
+# (noun) and `abend` (adverb).  HanTa is asked about both spellings with case
+# taken into account: noun readings come from the capitalised spelling, all
+# other readings from the lower-case one (each spelling scored the way it is
+# written in running text).  A second reading is kept when it is within
+# SECOND_MARGIN of the best one.
+SECOND_MARGIN = 1.5
+# A noun is a proper noun only when HanTa's proper-noun reading beats its
+# common-noun reading clearly (Hof, Baum: NE and NN within 1; Tom, Ben: NE only).
+PROPER_MARGIN = 1.5
+# Finite verb forms and inflected attributive adjectives are not compound
+# members (sprach, kamen, große); imperatives are the bare verb stem (fahr,
+# schwimm) and participles are used as adjectives, so those are not marked.
+INFLECTED_TAGS = ("VVFIN", "VAFIN", "VMFIN", "ADJA")
+# Unknown short forms.  HanTa scores the words of its lexicon above about -20
+# (log-probability) and guesses unknown strings far lower (-26 and below).
+# A form of at most UNKNOWN_MAX_LEN letters that scores below UNKNOWN_SCORE
+# on both spellings, and is not the lemma of another listed form, is a
+# fragment of hyphenation, a foreign token or a typo (cke, ssel, ucht, esben,
+# jau), and is dropped.  Huhn stays: it is the lemma of Hühner.
+UNKNOWN_SCORE = -25.0
+UNKNOWN_MAX_LEN = 5
+
+
+def fold_ss(word):
+    return word.replace("ß", "ss")
+
+
+class GermanTagger:
+    def __init__(self, model):
+        from HanTa import HanoverTagger as ht
+        self.t = ht.HanoverTagger(model)
+        self.last_score = -math.inf
+
+    def _cands(self, word):
+        """Best-scored ß spelling's candidates, case-sensitive."""
+        def get(w):
+            return [(tag, float(lp)) for tag, lp in
+                    self.t.tag_word(w, cutoff=6, casesensitive=True)]
+        best_w, best = word, get(word)
+        if "ss" in word:
             # wordfreq folded ß to ss; let HanTa also see the ß spellings.
-            idx = [i for i in range(len(form) - 1) if form.startswith("ss", i)]
-            variants = [form[:i] + "ß" + form[i + 2:] for i in idx]
+            idx = [i for i in range(len(word) - 1) if word.startswith("ss", i)]
+            variants = [word[:i] + "ß" + word[i + 2:] for i in idx]
             if len(idx) > 1:
-                variants.append(form.replace("ss", "ß"))
+                variants.append(word.replace("ss", "ß"))
             for v in variants:
-                vc = self._cands(v)
-                if vc and (not cands or max(p for _, p in vc) > max(p for _, p in cands)):
-                    cands = vc
-        return choose_pos(form, cands, self.coarse)
+                vc = get(v)
+                if vc and (not best or max(p for _, p in vc) > max(p for _, p in best)):
+                    best_w, best = v, vc
+        return best_w, best
+
+    def _lemma(self, word, tag, form):
+        lemma, _ = self.t.analyze(word, taglevel=1, pos=tag)
+        lemma = fold_ss(unicodedata.normalize("NFC", str(lemma)))
+        if not lemma or lemma.lower() == form.lower() or not lemma.isalpha():
+            return None
+        return lemma
+
+    def readings(self, form):
+        """[{pos, proper, lemma, inflected}], the best reading first."""
+        cap = form[0].upper() + form[1:]
+        uc_word, uc = self._cands(cap)
+        lc_word, lc = self._cands(form)
+        groups = {}  # pos -> (summed logp, best tag, its logp, spelling)
+
+        def add(pos, tag, lp, word):
+            if pos in groups:
+                total, btag, blp, bword = groups[pos]
+                total = logaddexp(total, lp)
+                if lp > blp:
+                    btag, blp, bword = tag, lp, word
+                groups[pos] = (total, btag, blp, bword)
+            else:
+                groups[pos] = (lp, tag, lp, word)
+
+        nn = ne = -math.inf
+        for tag, lp in uc:
+            pos, proper = coarse_de(tag)
+            if tag.startswith("N"):
+                add(pos, tag, lp, uc_word)
+                if proper:
+                    ne = logaddexp(ne, lp) if ne > -math.inf else lp
+                elif pos == "noun":
+                    nn = logaddexp(nn, lp) if nn > -math.inf else lp
+        for tag, lp in lc:
+            if tag in ("UNKNOWN", "EMPTY") or tag.startswith("N"):
+                continue
+            pos, _ = coarse_de(tag)
+            add(pos, tag, lp, lc_word)
+        self.last_score = -math.inf
+        if not groups:
+            return []
+        self.last_score = max(lp for _, lp in uc + lc)
+        order = sorted(groups, key=lambda p: (-groups[p][0], p))
+        best = order[0]
+        if (best != "verb" and form.endswith("n") and "verb" in groups
+                and groups["verb"][0] >= groups[best][0] - VERB_MARGIN):
+            best = "verb"
+        chosen = [best]
+        # A second reading across the noun / non-noun divide.
+        for p in order:
+            if p != best and (p == "noun") != (best == "noun"):
+                if groups[p][0] >= groups[best][0] - SECOND_MARGIN:
+                    chosen.append(p)
+                break
+        out = []
+        for pos in chosen:
+            _, tag, _, word = groups[pos]
+            r = dict(pos=pos, proper=False, lemma=None, inflected=False)
+            if pos == "noun":
+                r["proper"] = ne > -math.inf and ne > nn + PROPER_MARGIN
+            if not r["proper"]:
+                r["lemma"] = self._lemma(word, tag, form)
+            stts = tag.replace("(", "").replace(")", "")
+            r["inflected"] = r["lemma"] is not None and stts.startswith(INFLECTED_TAGS)
+            out.append(r)
+        return out
+
+
+def reading_tags(r):
+    tags = [f"pos={r['pos']}"]
+    if r.get("proper"):
+        tags.append("proper=yes")
+    if r.get("lemma"):
+        tags.append(f"lemma={r['lemma']}")
+    if r.get("inflected"):
+        tags.append("inflected=yes")
+    return tags
 
 
 # --- filtering ---------------------------------------------------------------
@@ -394,27 +520,46 @@ def build(lang, outdir):
     tagger = None
     pos_counts = {}
     if cfg["tagger"]:
-        tagger = Tagger(lang, cfg["tagger"])
+        tagger = GermanTagger(cfg["tagger"]) if lang == "de" else Tagger(lang, cfg["tagger"])
     lines = []
+    second = 0
+    tagged = []
     for i, (form, freq) in enumerate(entries):
-        tags = []
-        shown = form
-        if tagger is not None:
-            res = tagger.tag(form)
-            if res is not None:
-                pos, proper = res
-                tags.append(f"pos={pos}")
-                if proper:
-                    tags.append("proper=yes")
-                pos_counts[pos] = pos_counts.get(pos, 0) + 1
-                if lang == "de" and pos == "noun":
-                    shown = form[0].upper() + form[1:]
-        line = f"{shown}\t{freq}"
-        if tags:
-            line += "\t" + ";".join(tags)
-        lines.append(line)
+        readings = tagger.readings(form) if tagger is not None else []
+        score = getattr(tagger, "last_score", None)
+        tagged.append((form, freq, readings, score))
         if tagger is not None and i and i % 50_000 == 0:
             print(f"[{lang}] tagged {i} ({time.time() - t0:.0f}s)", file=sys.stderr, flush=True)
+    if lang == "de":
+        lemmas = {r["lemma"].lower() for _, _, rs, _ in tagged for r in rs if r.get("lemma")}
+        kept = []
+        for e in tagged:
+            form, _, _, score = e
+            if (len(form) <= UNKNOWN_MAX_LEN and score is not None and score < UNKNOWN_SCORE
+                    and form not in lemmas):
+                dropped["unknown"] = dropped.get("unknown", 0) + 1
+                continue
+            kept.append(e)
+        print(f"[{lang}] dropped {dropped.get('unknown', 0)} unknown short forms",
+              file=sys.stderr, flush=True)
+        tagged = kept
+    entries = [(f, q) for f, q, _, _ in tagged]
+    for form, freq, readings, _ in tagged:
+
+        def shown(r):
+            return form[0].upper() + form[1:] if lang == "de" and r["pos"] == "noun" else form
+
+        if readings:
+            first = readings[0]
+            pos_counts[first["pos"]] = pos_counts.get(first["pos"], 0) + 1
+            lines.append(f"{shown(first)}\t{freq}\t" + ";".join(reading_tags(first)))
+            # Further readings: a line without a frequency (the loader keeps it
+            # as another reading of the same entry; frequencies add up).
+            for r in readings[1:]:
+                lines.append(f"{shown(r)}\t" + ";".join(reading_tags(r)))
+                second += 1
+        else:
+            lines.append(f"{form}\t{freq}")
 
     abbr = sorted(ABBREVIATIONS[lang])
     frag = sorted(FRAGMENTS[lang])
@@ -442,20 +587,30 @@ def build(lang, outdir):
             "#   (HanTa is LGPL-3.0-or-later; only its labels are stored here)",
         ]
         if lang == "de":
-            header.append("#   German nouns are written capitalised; wordfreq folds ß to ss (strasse)")
+            header += [
+                "#   German: lemma=FORM (HanTa's lemma, where it differs from the form) and inflected=yes",
+                "#   (a finite verb or inflected adjective form); a line without a frequency is a further",
+                "#   reading of the form above it (noun and non-noun readings of one case-folded form)",
+                "#   German nouns are written capitalised; wordfreq folds ß to ss (strasse)",
+            ]
     else:
         header.append("# tags: none (no offline part-of-speech model for this language on PyPI)")
     header.append("# filters:")
     header += ["#   - " + s.format(**fmt) for s in FILTER_SUMMARY]
-    header.append(f"# entries: {len(lines)} (from {raw} in the wordfreq list)")
+    if lang == "de":
+        header.append(f"#   - forms of at most {UNKNOWN_MAX_LEN} letters that HanTa does not know (best score below "
+                      f"{UNKNOWN_SCORE:g} on both spellings) and that are no listed form's lemma dropped "
+                      f"({dropped.get('unknown', 0)} forms)")
+    header.append(f"# entries: {len(entries)} (from {raw} in the wordfreq list)"
+                  + (f"; {second} further reading lines" if second else ""))
     header.append(f"# command: python3 scripts/build_lexicons.py --lang {lang}"
                   "  (after: pip install wordfreq==3.1.1 HanTa==1.2.1 numpy)")
     out = os.path.join(outdir, cfg["file"])
     with open(out, "w", encoding="utf-8", newline="\n") as f:
         f.write("\n".join(header + lines) + "\n")
-    print(f"[{lang}] wrote {out}: {len(lines)} entries, pos={pos_counts} "
+    print(f"[{lang}] wrote {out}: {len(entries)} entries, pos={pos_counts} "
           f"({time.time() - t0:.0f}s)", file=sys.stderr, flush=True)
-    return len(lines)
+    return len(entries)
 
 
 def main():

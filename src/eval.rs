@@ -14,7 +14,9 @@
 //!
 //! Parts are compared as lexicon forms, in Unicode NFC, case-insensitively
 //! (and through the rule-set's normalization, so a selected variant such as
-//! `ß` = `ss` applies to both sides).
+//! `ß` = `ss` applies to both sides). A part also matches the gold by its
+//! lemma, where the lexicon gives one (`lemma=` tag: the inflected form
+//! `Hühner` in `Hühnerei` matches the gold part `Huhn`).
 //!
 //! - **Accuracy**: the best analysis' parts equal one of the alternatives.
 //! - **Word categories** (Koehn & Knight 2003, *Empirical methods for
@@ -325,11 +327,30 @@ fn comparable(analyzer: &Analyzer, form: &str) -> String {
     analyzer.rules.normalizer.normalize(&s).to_lowercase()
 }
 
-fn parts_of(analyzer: &Analyzer, a: &Analysis) -> Vec<String> {
+/// Per part, the names the gold may give it: its lexicon form and its lemmas.
+fn parts_of(analyzer: &Analyzer, a: &Analysis) -> Vec<Vec<String>> {
     a.parts
         .iter()
-        .map(|p| comparable(analyzer, &p.form))
+        .map(|p| {
+            let mut names = vec![comparable(analyzer, &p.form)];
+            for l in p.lemmas() {
+                let l = comparable(analyzer, l);
+                if !names.contains(&l) {
+                    names.push(l);
+                }
+            }
+            names
+        })
         .collect()
+}
+
+/// Whether an analysis' parts (with their acceptable names) spell an expected analysis.
+fn spells(parts: &[Vec<String>], expected: &[String]) -> bool {
+    parts.len() == expected.len()
+        && parts
+            .iter()
+            .zip(expected)
+            .all(|(names, e)| names.contains(e))
 }
 
 /// Split points of an analysis: input offsets where parts after the first start.
@@ -380,12 +401,12 @@ pub fn evaluate(analyzer: &Analyzer, gold: &[GoldEntry], options: &EvalOptions) 
             .collect();
         let compound = entry.is_compound();
         compounds += usize::from(compound);
-        let analyses: Vec<(Vec<String>, &Analysis)> = record
+        let analyses: Vec<(Vec<Vec<String>>, &Analysis)> = record
             .analyses
             .iter()
             .map(|a| (parts_of(analyzer, a), a))
             .collect();
-        let matches = |parts: &Vec<String>| expected.iter().position(|e| e == parts);
+        let matches = |parts: &Vec<Vec<String>>| expected.iter().position(|e| spells(parts, e));
         let best = analyses.first();
         let best_alt = best.and_then(|(p, _)| matches(p));
         let expected_rank = analyses
@@ -411,7 +432,7 @@ pub fn evaluate(analyzer: &Analyzer, gold: &[GoldEntry], options: &EvalOptions) 
         // Split points.
         let predicted = best.map(|(_, a)| split_points_of(a)).unwrap_or_default();
         let expected_points = |i: usize| -> BTreeSet<usize> {
-            match analyses.iter().find(|(p, _)| *p == expected[i]) {
+            match analyses.iter().find(|(p, _)| spells(p, &expected[i])) {
                 Some((_, a)) => split_points_of(a),
                 None => aligned_points(analyzer, &entry.surface, &expected[i]),
             }
@@ -451,7 +472,10 @@ pub fn evaluate(analyzer: &Analyzer, gold: &[GoldEntry], options: &EvalOptions) 
                 .map(|(_, a)| {
                     a.parts
                         .iter()
-                        .map(|p| p.form.as_str())
+                        .map(|p| match p.lemma() {
+                            l if l == p.form => p.form.clone(),
+                            l => format!("{}[{l}]", p.form),
+                        })
                         .collect::<Vec<_>>()
                         .join("+")
                 })

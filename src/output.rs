@@ -199,6 +199,10 @@ pub struct TermsOptions {
     pub best_only: bool,
     /// How far below the best score a reading may be and still give terms.
     pub margin: f64,
+    /// Parts give their lemma (the lexicon's `lemma` tag, e.g. `Huhn` for
+    /// the part `Hühner` of `Hühnerei`) instead of the form, where the
+    /// lexicon has one.
+    pub lemmas: bool,
 }
 
 impl Default for TermsOptions {
@@ -209,13 +213,15 @@ impl Default for TermsOptions {
             keep_original: true,
             best_only: false,
             margin: 1.0,
+            lemmas: true,
         }
     }
 }
 
 /// The index terms of one token: the token itself (unless `keep_original`
-/// is off and it was split), then the lexicon forms of the parts of the
-/// chosen readings (linking elements removed, elided letters restored), in
+/// is off and it was split), then the lexicon forms (or their lemmas, see
+/// [`TermsOptions::lemmas`]) of the parts of the chosen readings (linking
+/// elements removed, elided letters restored), in
 /// order of first appearance, without repeats. A passed-through or
 /// unanalysed token gives itself.
 pub fn terms(r: &crate::analyzer::TokenRecord, o: &TermsOptions) -> Vec<String> {
@@ -255,8 +261,9 @@ pub fn terms(r: &crate::analyzer::TokenRecord, o: &TermsOptions) -> Vec<String> 
             continue;
         }
         for p in &a.parts {
-            if p.form.chars().count() >= o.min_term_length {
-                push(case(&p.form), &mut out);
+            let term = if o.lemmas { p.lemma() } else { &p.form };
+            if term.chars().count() >= o.min_term_length {
+                push(case(term), &mut out);
             }
         }
     }

@@ -43,6 +43,40 @@ pub struct Part {
     pub key: String,
 }
 
+impl Part {
+    /// The dictionary forms this part stands for: per reading, its `lemma`
+    /// tag, or the form itself when the reading has none (the form is its own
+    /// lemma). The first reading comes first; no repeats.
+    pub fn lemmas(&self) -> Vec<&str> {
+        let mut out: Vec<&str> = Vec::new();
+        if self.readings.is_empty() {
+            match self.tags.get(LEMMA_TAG) {
+                Some(v) => out.extend(v.split('|').filter(|x| !x.is_empty())),
+                None => out.push(&self.form),
+            }
+        } else {
+            for r in &self.readings {
+                let l = r.get(LEMMA_TAG).map_or(self.form.as_str(), String::as_str);
+                if !out.contains(&l) {
+                    out.push(l);
+                }
+            }
+        }
+        if out.is_empty() {
+            out.push(&self.form);
+        }
+        out
+    }
+
+    /// The first of [`Part::lemmas`]: the index term of this part.
+    pub fn lemma(&self) -> &str {
+        self.lemmas().first().copied().unwrap_or(&self.form)
+    }
+}
+
+/// The lexicon tag that names a form's lemma (dictionary form).
+pub const LEMMA_TAG: &str = "lemma";
+
 /// One junction of an analysis: a step of the proof chain.
 #[derive(Debug, Clone, PartialEq, Serialize)]
 pub struct Junction {

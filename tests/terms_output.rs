@@ -160,3 +160,49 @@ fn cli_terms_one_line_per_token() {
     assert_eq!(v["passthrough"], "url");
     let _ = std::fs::remove_dir_all(&dir);
 }
+
+/// Lexicon entries with `lemma` tags, as the bundled German lexicon writes
+/// them (invented frequencies).
+const LEMMA_LEXICON: &str = "\
+Hühner\t6000\tpos=noun;lemma=Huhn
+Ei\t20000\tpos=noun
+sprach\t50000\tpos=verb;lemma=sprechen;inflected=yes
+Sprache\t90000\tpos=noun
+Kurs\t30000\tpos=noun
+";
+
+fn lemma_token(word: &str, o: &TermsOptions) -> (Vec<String>, TokenRecord) {
+    let rules = rules();
+    let mut b = LexiconBuilder::new(&rules.normalizer);
+    b.add_tsv("lemmas.tsv", LEMMA_LEXICON.as_bytes()).unwrap();
+    let lexicon = b.build().unwrap();
+    let analyzer = Analyzer::new(&rules, &lexicon);
+    let record = analyzer.split_token(word, 5, 80);
+    (terms(&record, o), record)
+}
+
+#[test]
+fn terms_give_the_lemma_of_an_inflected_part_unless_asked_for_forms() {
+    let (t, record) = lemma_token("Hühnerei", &TermsOptions::default());
+    assert_eq!(t, ["Hühnerei", "Huhn", "Ei"]);
+    let best = &record.record.analyses[0];
+    assert_eq!(best.parts[0].lemmas(), ["Huhn"]);
+    assert_eq!(best.parts[1].lemmas(), ["Ei"]);
+    let forms = TermsOptions {
+        lemmas: false,
+        ..TermsOptions::default()
+    };
+    assert_eq!(
+        lemma_token("Hühnerei", &forms).0,
+        ["Hühnerei", "Hühner", "Ei"]
+    );
+}
+
+#[test]
+fn a_finite_verb_form_is_not_a_compound_member() {
+    // `sprach` (past tense of sprechen) is in the lexicon, more frequent
+    // here than the right reading's Sprache; the German rule-set still
+    // reads Sprache with its final -e elided.
+    let (t, _) = lemma_token("Sprachkurs", &TermsOptions::default());
+    assert_eq!(t, ["Sprachkurs", "Sprache", "Kurs"]);
+}

@@ -73,6 +73,10 @@ pub struct SplitArgs {
     /// terms: readings scoring at most this much below the best also give terms.
     #[arg(long, default_value_t = 1.0, value_name = "SCORE")]
     pub term_margin: f64,
+    /// terms: give each part's lexicon form as it matched (`Hühner`), not its
+    /// lemma (`Huhn`, from the lexicon's `lemma` tag; the default).
+    #[arg(long)]
+    pub term_forms: bool,
     /// Pass numbers, URLs, e-mail addresses, mixed-script and over-long tokens
     /// through unanalysed (always on with --format terms).
     #[arg(long, overrides_with = "no_passthrough")]
@@ -256,6 +260,7 @@ fn run_tokens(args: &SplitArgs, analyzer: &Analyzer, k: usize) -> Result<i32, Fa
         keep_original: !args.no_original,
         best_only: args.best_only,
         margin: args.term_margin,
+        lemmas: !args.term_forms,
     };
     let max_token = if passthrough {
         args.max_token_chars
