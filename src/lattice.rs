@@ -14,7 +14,7 @@
 //! analysis; every edge pair moves forward on the surface, so the graph is
 //! acyclic.
 
-use crate::lexicon::{condition_holds, Lexicon, Tags};
+use crate::lexicon::{condition_holds, Lexicon, State, Tags};
 use crate::normalize::MappedText;
 use crate::rules::{Condition, RuleSet, Scope, Separator};
 use petgraph::graph::{DiGraph, EdgeIndex, NodeIndex};
@@ -230,6 +230,44 @@ pub fn part_readings<'a>(
     }
 }
 
+/// A fast hash for the small integer keys of the node maps (the standard
+/// SipHash guards against hash flooding, which integer keys made here cannot do).
+#[derive(Default, Clone, Copy)]
+struct IntHasher(u64);
+
+impl std::hash::Hasher for IntHasher {
+    fn finish(&self) -> u64 {
+        self.0
+    }
+    fn write(&mut self, bytes: &[u8]) {
+        for &b in bytes {
+            self.write_u64(u64::from(b));
+        }
+    }
+    fn write_u8(&mut self, n: u8) {
+        self.write_u64(u64::from(n));
+    }
+    fn write_u32(&mut self, n: u32) {
+        self.write_u64(u64::from(n));
+    }
+    fn write_u64(&mut self, n: u64) {
+        self.0 = (self.0.rotate_left(5) ^ n).wrapping_mul(0x51_7c_c1_b7_27_22_0a_95);
+    }
+    fn write_usize(&mut self, n: usize) {
+        self.write_u64(n as u64);
+    }
+}
+
+type IntMap<K> = HashMap<K, NodeIndex, std::hash::BuildHasherDefault<IntHasher>>;
+
+/// A part node waiting to be expanded.
+#[derive(Clone, Copy)]
+struct PendingPart<'a> {
+    node: NodeIndex,
+    carried: &'a str,
+    pending: Option<usize>,
+}
+
 struct Builder<'a> {
     rules: &'a RuleSet,
     lexicon: &'a Lexicon,
@@ -237,14 +275,24 @@ struct Builder<'a> {
     chars: Vec<char>,
     original_upper: Vec<bool>,
     bounds: Vec<bool>,
-    matches_at: Vec<std::rc::Rc<Vec<(usize, usize)>>>,
+    /// Surfaces found at each position: `matches[match_start[q]..match_start[q + 1]]`
+    /// holds (surface, position after it), shortest first.
+    matches: Vec<(u32, usize)>,
+    match_start: Vec<usize>,
     graph: DiGraph<Node, Edge>,
-    nodes: HashMap<Node, NodeIndex>,
-    parts_at: Vec<Vec<NodeIndex>>,
+    /// Joint nodes by (position, instance).
+    joints: IntMap<(usize, usize)>,
+    /// Part nodes by (position, right start number, pending rule).
+    parts: IntMap<(usize, u32, Option<usize>)>,
+    parts_at: Vec<Vec<PendingPart<'a>>>,
+    /// Per node: (position, rank at that position) for the topological order.
+    order_keys: Vec<(usize, u8)>,
     start: NodeIndex,
     end: NodeIndex,
     min_part: usize,
     truncated: Option<Truncation>,
+    /// Scratch stack of the left-end walk.
+    stack: Vec<(u32, State<'a>)>,
 }
 
 /// Builds the lattice of `input`.
@@ -253,12 +301,11 @@ pub fn build(rules: &RuleSet, lexicon: &Lexicon, input: &str, options: &LatticeO
     let chars = text.chars.clone();
     let n = chars.len();
     let mut graph = DiGraph::new();
-    let start_node = Node::Part {
+    let start = graph.add_node(Node::Part {
         pos: 0,
         carried: String::new(),
         pending: None,
-    };
-    let start = graph.add_node(start_node.clone());
+    });
     let end = graph.add_node(Node::End);
     if n > options.max_input_chars {
         return Lattice {
@@ -283,35 +330,42 @@ pub fn build(rules: &RuleSet, lexicon: &Lexicon, input: &str, options: &LatticeO
         rules,
         lexicon,
         options,
-        matches_at: Vec::new(),
+        matches: Vec::new(),
+        match_start: Vec::with_capacity(n + 2),
         chars,
         original_upper,
         bounds,
         graph,
-        nodes: HashMap::new(),
+        joints: IntMap::default(),
+        parts: IntMap::default(),
         parts_at: vec![Vec::new(); n + 1],
+        order_keys: vec![(0, 1), (usize::MAX, 3)],
         start,
         end,
         min_part: options
             .min_part_length
             .unwrap_or(rules.settings.min_part_length),
         truncated: None,
+        stack: Vec::new(),
     };
-    b.nodes.insert(start_node, start);
-    b.nodes.insert(Node::End, end);
-    b.parts_at[0].push(start);
+    b.parts.insert((0, 0, None), start);
+    b.parts_at[0].push(PendingPart {
+        node: start,
+        carried: "",
+        pending: None,
+    });
     b.find_junctions();
     for pos in 0..=n {
         let here = std::mem::take(&mut b.parts_at[pos]);
-        for node in here {
+        for part in here {
             if b.truncated.is_some() {
                 break;
             }
-            b.expand(node);
+            b.expand(part, pos);
         }
     }
     let truncated = b.truncated;
-    let order = topological_order(rules, &b.graph);
+    let order = b.topological_order();
     Lattice {
         order,
         graph: b.graph,
@@ -323,67 +377,81 @@ pub fn build(rules: &RuleSet, lexicon: &Lexicon, input: &str, options: &LatticeO
     }
 }
 
-/// Nodes sorted by surface position; at one position, joints whose junction
-/// prints nothing come before part nodes, which come before the other joints.
-/// Every edge goes forward in this order (see the module docs), so it is a
-/// topological order, found without a graph search.
-fn topological_order(rules: &RuleSet, graph: &DiGraph<Node, Edge>) -> Vec<NodeIndex> {
-    let mut order: Vec<NodeIndex> = graph.node_indices().collect();
-    order.sort_by_key(|&i| match &graph[i] {
-        Node::Part { pos, .. } => (*pos, 1),
-        Node::Joint { pos, instance } => (
-            *pos,
-            if rules.instances[*instance].surface_chars() == 0 {
-                0
-            } else {
-                2
-            },
-        ),
-        Node::End => (usize::MAX, 3),
-    });
-    order
-}
-
-impl Builder<'_> {
-    /// For every position, the junction instances whose surface starts there,
-    /// grouped by their underlying left end within each surface (the rule-set's
-    /// surface index keeps them so), so each left end is walked once.
+impl<'a> Builder<'a> {
+    /// For every position, the instance surfaces that start there (at
+    /// segment boundaries, ending at one), shortest first.
     fn find_junctions(&mut self) {
         let n = self.chars.len();
         let max = self.rules.max_surface_chars();
-        let mut surface = String::new();
+        let trie = &self.rules.surface_trie;
         for q in 0..=n {
-            let mut here = Vec::new();
-            if self.bounds[q] {
-                surface.clear();
-                for len in 0..=max.min(n - q) {
-                    if len > 0 {
-                        surface.push(self.chars[q + len - 1]);
-                    }
-                    if !self.bounds[q + len] {
-                        continue;
-                    }
-                    for &i in self.rules.instances_with_surface(&surface) {
-                        if self.options.scope.allows(self.rules.instances[i].scope) {
-                            here.push((i, q + len));
-                        }
-                    }
-                }
+            self.match_start.push(self.matches.len());
+            if !self.bounds[q] {
+                continue;
             }
-            self.matches_at.push(std::rc::Rc::new(here));
+            let bounds = &self.bounds[q..];
+            let matches = &mut self.matches;
+            trie.matches(
+                &self.chars[q..],
+                max,
+                |len| bounds[len],
+                |surface, len| matches.push((surface, q + len)),
+            );
         }
+        self.match_start.push(self.matches.len());
     }
 
-    fn node(&mut self, node: Node) -> (NodeIndex, bool) {
-        if let Some(&i) = self.nodes.get(&node) {
+    /// Nodes sorted by surface position; at one position, joints whose
+    /// junction prints nothing come before part nodes, which come before the
+    /// other joints. Every edge goes forward in this order (see the module
+    /// docs), so it is a topological order, found without a graph search.
+    fn topological_order(&self) -> Vec<NodeIndex> {
+        let mut keys: Vec<(usize, u8, u32)> = self
+            .order_keys
+            .iter()
+            .enumerate()
+            .map(|(i, &(pos, rank))| (pos, rank, i as u32))
+            .collect();
+        keys.sort_unstable();
+        keys.into_iter()
+            .map(|(_, _, i)| NodeIndex::new(i as usize))
+            .collect()
+    }
+
+    fn joint(&mut self, pos: usize, instance: usize) -> (NodeIndex, bool) {
+        if let Some(&i) = self.joints.get(&(pos, instance)) {
             return (i, false);
         }
-        let i = self.graph.add_node(node.clone());
-        if let Node::Part { pos, .. } = node {
-            self.parts_at[pos].push(i);
-        }
-        self.nodes.insert(node, i);
+        let i = self.graph.add_node(Node::Joint { pos, instance });
+        let rank = if self.rules.surface_trie.surface_chars(instance) == 0 {
+            0
+        } else {
+            2
+        };
+        self.order_keys.push((pos, rank));
+        self.joints.insert((pos, instance), i);
         (i, true)
+    }
+
+    fn part(&mut self, pos: usize, instance: usize, pending: Option<usize>) -> NodeIndex {
+        let key = (pos, self.rules.surface_trie.right_id(instance), pending);
+        if let Some(&i) = self.parts.get(&key) {
+            return i;
+        }
+        let carried: &'a str = &self.rules.instances[instance].right;
+        let i = self.graph.add_node(Node::Part {
+            pos,
+            carried: carried.to_string(),
+            pending,
+        });
+        self.order_keys.push((pos, 1));
+        self.parts_at[pos].push(PendingPart {
+            node: i,
+            carried,
+            pending,
+        });
+        self.parts.insert(key, i);
+        i
     }
 
     fn add_edge(&mut self, from: NodeIndex, to: NodeIndex, edge: Edge) {
@@ -422,28 +490,22 @@ impl Builder<'_> {
         true
     }
 
-    fn expand(&mut self, node: NodeIndex) {
+    fn expand(&mut self, part: PendingPart<'a>, pos: usize) {
         if let Some(deadline) = self.options.deadline {
             if Instant::now() > deadline {
                 self.truncated = Some(Truncation::Time);
                 return;
             }
         }
-        let Node::Part {
-            pos,
-            carried,
-            pending,
-        } = self.graph[node].clone()
-        else {
-            return;
-        };
         let n = self.chars.len();
-        let carried_chars = carried.chars().count();
-        if let Some(mut cursor) = self.lexicon.step_str(self.lexicon.root(), &carried) {
+        let lexicon = self.lexicon;
+        let carried_chars = part.carried.chars().count();
+        if let Some(cursor) = lexicon.step_str(lexicon.root(), part.carried) {
+            let mut state = lexicon.at(cursor);
             let mut q = pos;
             loop {
                 if self.bounds[q] {
-                    self.word_ends(node, pos, &carried, carried_chars, pending, cursor, q);
+                    self.word_ends(part, pos, carried_chars, state, q);
                     if self.truncated.is_some() {
                         return;
                     }
@@ -451,43 +513,44 @@ impl Builder<'_> {
                 if q == n {
                     break;
                 }
-                match self.lexicon.step_char(cursor, self.chars[q]) {
-                    Some(c) => cursor = c,
+                match state.next_char(self.chars[q]) {
+                    Some(next) => state = next,
                     None => break,
                 }
                 q += 1;
             }
         }
-        if carried.is_empty() {
-            self.pattern_words(node, pos, pending);
+        if part.carried.is_empty() {
+            self.pattern_words(part.node, pos, part.pending);
         }
     }
 
-    #[allow(clippy::too_many_arguments)]
+    /// Every word read from `part` whose letters read directly end at `q`
+    /// (`state` is the lexicon after them): the whole rest of the input,
+    /// or any junction starting at `q` whose left end completes an entry.
     fn word_ends(
         &mut self,
-        node: NodeIndex,
+        part: PendingPart<'a>,
         pos: usize,
-        carried: &str,
         carried_chars: usize,
-        pending: Option<usize>,
-        cursor: crate::lexicon::Cursor,
+        state: State<'a>,
         q: usize,
     ) {
         let n = self.chars.len();
+        let node = part.node;
         if q == n {
-            if let Some(id) = self.lexicon.entry_at(cursor) {
-                let key = self.lexicon.entry(id).key.clone();
+            if let Some(id) = state.entry() {
+                let key = &self.lexicon.entry(id).key;
                 let whole = node == self.start;
-                if self.aligned(&key, carried_chars, 0)
-                    && self.word_allowed(node, pending, &key, PartSource::Entry(id))
-                    && self.conditions_hold(&self.rules.edge_end, &key, PartSource::Entry(id))
+                if self.aligned(key, carried_chars, 0)
+                    && self.word_allowed(node, part.pending, key, PartSource::Entry(id))
+                    && self.conditions_hold(&self.rules.edge_end, key, PartSource::Entry(id))
                     && (whole || key.chars().count() >= self.min_part)
                 {
                     let edge = WordEdge {
                         source: PartSource::Entry(id),
-                        key,
-                        carried: carried.to_string(),
+                        key: key.clone(),
+                        carried: part.carried.to_string(),
                         left_end: String::new(),
                         start: pos,
                         end: q,
@@ -497,49 +560,82 @@ impl Builder<'_> {
                 }
             }
         }
-        let matches = std::rc::Rc::clone(&self.matches_at[q]);
-        // Instances are grouped by left end: walk each left end once.
-        let mut last: Option<(usize, Option<usize>)> = None;
-        for &(inst_id, after) in matches.iter() {
+        let rules = self.rules;
+        let mut stack = std::mem::take(&mut self.stack);
+        for m in self.match_start[q]..self.match_start[q + 1] {
+            let (surface, after) = self.matches[m];
             if after == pos {
                 continue; // nothing read and nothing on the surface: no progress
             }
-            let inst = &self.rules.instances[inst_id];
-            let found = match last {
-                Some((prev, found)) if self.rules.instances[prev].left == inst.left => found,
-                _ => {
-                    let found = self
-                        .lexicon
-                        .step_str(cursor, &inst.left)
-                        .and_then(|c2| self.lexicon.entry_at(c2));
-                    last = Some((inst_id, found));
-                    found
+            let surface = rules.surface_trie.surface(surface);
+            // The left ends in byte order, each walked once from `state`.
+            stack.clear();
+            stack.push((0, state));
+            while let Some((at, here)) = stack.pop() {
+                let left = &surface.lefts[at as usize];
+                if let Some((from, to)) = left.group {
+                    if let Some(id) = here.entry() {
+                        let group = &surface.instances[from as usize..to as usize];
+                        self.group_edges(part, pos, carried_chars, q, after, group, id);
+                    }
                 }
-            };
-            let Some(id) = found else {
+                for &(byte, child) in left.children.iter().rev() {
+                    if let Some(next) = here.next(byte) {
+                        stack.push((child, next));
+                    }
+                }
+            }
+        }
+        self.stack = stack;
+    }
+
+    /// The word edges for entry `id` ending before the junction instances
+    /// `group` (one surface, one left end) at `q`.
+    #[allow(clippy::too_many_arguments)]
+    fn group_edges(
+        &mut self,
+        part: PendingPart<'a>,
+        pos: usize,
+        carried_chars: usize,
+        q: usize,
+        after: usize,
+        group: &'a [usize],
+        id: usize,
+    ) {
+        let rules = self.rules;
+        let entry = self.lexicon.entry(id);
+        let key = &entry.key;
+        let source = PartSource::Entry(id);
+        // What depends only on the entry and the left end is checked once.
+        let mut word_ok: Option<bool> = None;
+        for &inst_id in group {
+            let inst = &rules.instances[inst_id];
+            if !self.options.scope.allows(inst.scope) {
                 continue;
-            };
-            let key = self.lexicon.entry(id).key.clone();
-            let left_chars = inst.left.chars().count();
-            let rule = &self.rules.rules[inst.rule];
-            if !(self.aligned(&key, carried_chars, left_chars)
-                && key.chars().count() >= self.min_part
-                && self.word_allowed(node, pending, &key, PartSource::Entry(id))
-                && self.conditions_hold(&rule.left_conditions, &key, PartSource::Entry(id)))
-            {
+            }
+            let ok = *word_ok.get_or_insert_with(|| {
+                self.aligned(key, carried_chars, inst.left.chars().count())
+                    && key.chars().count() >= self.min_part
+                    && self.word_allowed(part.node, part.pending, key, source)
+            });
+            if !ok {
+                return;
+            }
+            let rule = &rules.rules[inst.rule];
+            if !self.conditions_hold(&rule.left_conditions, key, source) {
                 continue;
             }
             let pending_next = (!rule.right_conditions.is_empty()).then_some(inst.rule);
             let edge = WordEdge {
-                source: PartSource::Entry(id),
-                key,
-                carried: carried.to_string(),
+                source,
+                key: key.clone(),
+                carried: part.carried.to_string(),
                 left_end: inst.left.clone(),
                 start: pos,
                 end: q,
-                frequency: self.lexicon.entry(id).frequency,
+                frequency: entry.frequency,
             };
-            self.join_to(node, q, inst_id, after, pending_next, Edge::Word(edge));
+            self.join_to(part.node, q, inst_id, after, pending_next, Edge::Word(edge));
         }
     }
 
@@ -552,17 +648,9 @@ impl Builder<'_> {
         pending_next: Option<usize>,
         edge: Edge,
     ) {
-        let (joint, fresh) = self.node(Node::Joint {
-            pos: q,
-            instance: inst_id,
-        });
+        let (joint, fresh) = self.joint(q, inst_id);
         if fresh {
-            let right = self.rules.instances[inst_id].right.clone();
-            let (next, _) = self.node(Node::Part {
-                pos: after,
-                carried: right,
-                pending: pending_next,
-            });
+            let next = self.part(after, inst_id, pending_next);
             self.add_edge(joint, next, Edge::Junction { instance: inst_id });
         }
         self.add_edge(from, joint, edge);
@@ -590,8 +678,9 @@ impl Builder<'_> {
         if pos > 0 && !matches!(self.chars[pos - 1], ' ' | '-') {
             return;
         }
+        let rules = self.rules;
         let n = self.chars.len();
-        for (pi, pattern) in self.rules.patterns.iter().enumerate() {
+        for (pi, pattern) in rules.patterns.iter().enumerate() {
             let mut q = pos;
             let mut count = 0;
             while q < n {
@@ -625,38 +714,40 @@ impl Builder<'_> {
                     left_end: String::new(),
                     start: pos,
                     end: q,
-                    frequency: self.rules.settings.pattern_frequency,
+                    frequency: rules.settings.pattern_frequency,
                 };
                 if q == n {
-                    if self.conditions_hold(&self.rules.edge_end, &key, source) {
+                    if self.conditions_hold(&rules.edge_end, &key, source) {
                         self.add_edge(node, self.end, Edge::Word(edge.clone()));
                     }
                     continue;
                 }
-                let matches = std::rc::Rc::clone(&self.matches_at[q]);
-                for &(inst_id, after) in matches.iter() {
-                    let inst = &self.rules.instances[inst_id];
-                    if !inst.left.is_empty()
-                        || !inst.surface_left.is_empty()
-                        || !matches!(inst.separator, Separator::Space | Separator::Hyphen)
-                    {
-                        continue;
+                for m in self.match_start[q]..self.match_start[q + 1] {
+                    let (surface, after) = self.matches[m];
+                    for &inst_id in &rules.surface_trie.surface(surface).instances {
+                        let inst = &rules.instances[inst_id];
+                        if !self.options.scope.allows(inst.scope)
+                            || !inst.left.is_empty()
+                            || !inst.surface_left.is_empty()
+                            || !matches!(inst.separator, Separator::Space | Separator::Hyphen)
+                        {
+                            continue;
+                        }
+                        let rule = &rules.rules[inst.rule];
+                        if !self.conditions_hold(&rule.left_conditions, &key, source) {
+                            continue;
+                        }
+                        let pending_next = (!rule.right_conditions.is_empty()).then_some(inst.rule);
+                        self.join_to(
+                            node,
+                            q,
+                            inst_id,
+                            after,
+                            pending_next,
+                            Edge::Word(edge.clone()),
+                        );
                     }
-                    let rule = &self.rules.rules[inst.rule];
-                    if !self.conditions_hold(&rule.left_conditions, &key, source) {
-                        continue;
-                    }
-                    let pending_next = (!rule.right_conditions.is_empty()).then_some(inst.rule);
-                    self.join_to(
-                        node,
-                        q,
-                        inst_id,
-                        after,
-                        pending_next,
-                        Edge::Word(edge.clone()),
-                    );
                 }
-                let _ = pending;
             }
         }
     }

@@ -26,7 +26,6 @@ use petgraph::visit::EdgeRef;
 use petgraph::Direction;
 use std::cmp::Ordering;
 use std::collections::BinaryHeap;
-use std::rc::Rc;
 
 /// Options for ranking.
 #[derive(Debug, Clone)]
@@ -68,8 +67,8 @@ pub struct ScoredPath {
 }
 
 /// Nodes in topological order (start first). The lattice is acyclic by
-/// construction; should that ever fail, the order is cut where the cycle is.
-fn topological(lattice: &Lattice) -> Vec<NodeIndex> {
+/// construction; debug builds check that every edge goes forward.
+fn topological(lattice: &Lattice) -> &[NodeIndex] {
     if cfg!(debug_assertions) {
         let mut rank = vec![0usize; lattice.graph.node_count()];
         for (i, n) in lattice.order.iter().enumerate() {
@@ -83,7 +82,51 @@ fn topological(lattice: &Lattice) -> Vec<NodeIndex> {
             rank[a.index()] < rank[b.index()]
         }));
     }
-    lattice.order.clone()
+    &lattice.order
+}
+
+/// The count of [`count`] in machine integers (per number of parts when
+/// `max_parts > 0`), or `None` as soon as a sum would overflow; then the
+/// [`BigUint`] count is used.
+fn count_small(lattice: &Lattice, order: &[NodeIndex], max_parts: usize) -> Option<u128> {
+    let g = &lattice.graph;
+    let width = max_parts + 1;
+    let mut counts = vec![0u128; g.node_count() * width];
+    if max_parts == 0 {
+        counts[lattice.end.index()] = 1;
+    } else {
+        counts[lattice.end.index() * width] = 1;
+    }
+    let mut row = vec![0u128; width];
+    for &u in order.iter().rev() {
+        if u == lattice.end {
+            continue;
+        }
+        row.iter_mut().for_each(|x| *x = 0);
+        for e in g.edges_directed(u, Direction::Outgoing) {
+            let v = &counts[e.target().index() * width..][..width];
+            if max_parts == 0 {
+                row[0] = row[0].checked_add(v[0])?;
+                continue;
+            }
+            match e.weight() {
+                Edge::Word(_) => {
+                    for r in 1..width {
+                        row[r] = row[r].checked_add(v[r - 1])?;
+                    }
+                }
+                Edge::Junction { .. } => {
+                    for r in 0..width {
+                        row[r] = row[r].checked_add(v[r])?;
+                    }
+                }
+            }
+        }
+        counts[u.index() * width..][..width].copy_from_slice(&row);
+    }
+    counts[lattice.start.index() * width..][..width]
+        .iter()
+        .try_fold(0u128, |a, &b| a.checked_add(b))
 }
 
 /// Exact number of analyses (paths from start to end), optionally with at
@@ -91,7 +134,10 @@ fn topological(lattice: &Lattice) -> Vec<NodeIndex> {
 pub fn count(lattice: &Lattice, max_parts: usize) -> BigUint {
     let order = topological(lattice);
     let g = &lattice.graph;
-    let max_parts = part_limit(lattice, &order, max_parts);
+    let max_parts = part_limit(lattice, order, max_parts);
+    if let Some(n) = count_small(lattice, order, max_parts) {
+        return BigUint::from(n);
+    }
     if max_parts == 0 {
         let mut counts: Vec<BigUint> = vec![BigUint::zero(); g.node_count()];
         counts[lattice.end.index()] = BigUint::one();
@@ -184,31 +230,31 @@ impl Weights<'_> {
     }
 }
 
-/// Best completion score from every node (per remaining part budget when layered).
+/// Best completion score from every node (per remaining part budget when
+/// layered): `h[node * width + budget]`. `w` is the weight of every edge.
 fn heuristic(
     lattice: &Lattice,
     order: &[NodeIndex],
-    weights: &Weights,
+    w: &[f64],
     layering: Layering,
-) -> Vec<Vec<f64>> {
+    width: usize,
+) -> Vec<f64> {
     let g = &lattice.graph;
-    let width = match layering {
-        Layering::Free => 1,
-        Layering::AtMost(p) | Layering::Exactly(p) => p + 1,
-    };
-    let mut h = vec![vec![f64::NEG_INFINITY; width]; g.node_count()];
+    let mut h = vec![f64::NEG_INFINITY; g.node_count() * width];
+    let end = &mut h[lattice.end.index() * width..][..width];
     match layering {
-        Layering::Exactly(_) => h[lattice.end.index()][0] = 0.0,
-        _ => h[lattice.end.index()].iter_mut().for_each(|x| *x = 0.0),
+        Layering::Exactly(_) => end[0] = 0.0,
+        _ => end.iter_mut().for_each(|x| *x = 0.0),
     }
+    let mut row = vec![f64::NEG_INFINITY; width];
     for &u in order.iter().rev() {
         if u == lattice.end {
             continue;
         }
-        let mut row = vec![f64::NEG_INFINITY; width];
+        row.iter_mut().for_each(|x| *x = f64::NEG_INFINITY);
         for e in g.edges_directed(u, Direction::Outgoing) {
-            let w = weights.of(e.weight());
-            let v = &h[e.target().index()];
+            let w = w[e.id().index()];
+            let v = &h[e.target().index() * width..][..width];
             let is_word = matches!(e.weight(), Edge::Word(_));
             for r in 0..width {
                 let from = match (layering, is_word) {
@@ -224,14 +270,16 @@ fn heuristic(
                 }
             }
         }
-        h[u.index()] = row;
+        h[u.index() * width..][..width].copy_from_slice(&row);
     }
     h
 }
 
+/// A partial path: its last edge and the link before it (an index into
+/// the search's list of links).
 struct PathLink {
     edge: EdgeIndex,
-    prev: Option<Rc<PathLink>>,
+    prev: Option<usize>,
 }
 
 struct Item {
@@ -241,7 +289,7 @@ struct Item {
     node: NodeIndex,
     budget: usize,
     parts: usize,
-    path: Option<Rc<PathLink>>,
+    path: Option<usize>,
 }
 
 impl PartialEq for Item {
@@ -263,11 +311,12 @@ impl Ord for Item {
     }
 }
 
-fn collect_path(mut link: Option<Rc<PathLink>>) -> Vec<EdgeIndex> {
+fn collect_path(links: &[PathLink], mut link: Option<usize>) -> Vec<EdgeIndex> {
     let mut edges = Vec::new();
     while let Some(l) = link {
+        let l = &links[l];
         edges.push(l.edge);
-        link = l.prev.clone();
+        link = l.prev;
     }
     edges.reverse();
     edges
@@ -282,16 +331,21 @@ fn best_first(
     max_pops: usize,
 ) -> (Vec<ScoredPath>, bool) {
     let order = topological(lattice);
-    let h = heuristic(lattice, &order, weights, layering);
     let g = &lattice.graph;
+    let w: Vec<f64> = g.edge_weights().map(|e| weights.of(e)).collect();
+    let width = match layering {
+        Layering::Free => 1,
+        Layering::AtMost(p) | Layering::Exactly(p) => p + 1,
+    };
+    let h = heuristic(lattice, order, &w, layering, width);
     let budget0 = match layering {
         Layering::Free => 0,
         Layering::AtMost(p) | Layering::Exactly(p) => p,
     };
     let hv = |node: NodeIndex, budget: usize| -> f64 {
         match layering {
-            Layering::Free => h[node.index()][0],
-            _ => h[node.index()][budget],
+            Layering::Free => h[node.index()],
+            _ => h[node.index() * width + budget],
         }
     };
     let mut out = Vec::new();
@@ -300,6 +354,7 @@ fn best_first(
         return (out, false);
     }
     let mut heap = BinaryHeap::new();
+    let mut links: Vec<PathLink> = Vec::new();
     let mut seq = 0u64;
     heap.push(Item {
         priority: start_h,
@@ -318,7 +373,7 @@ fn best_first(
         }
         if item.node == lattice.end {
             out.push(ScoredPath {
-                edges: collect_path(item.path),
+                edges: collect_path(&links, item.path),
                 score: item.g,
                 parts: item.parts,
             });
@@ -341,8 +396,12 @@ fn best_first(
             if !rest.is_finite() {
                 continue;
             }
-            let gnew = item.g + weights.of(e.weight());
+            let gnew = item.g + w[e.id().index()];
             seq += 1;
+            links.push(PathLink {
+                edge: e.id(),
+                prev: item.path,
+            });
             heap.push(Item {
                 priority: gnew + rest,
                 seq,
@@ -350,10 +409,7 @@ fn best_first(
                 node: e.target(),
                 budget,
                 parts: item.parts + usize::from(is_word),
-                path: Some(Rc::new(PathLink {
-                    edge: e.id(),
-                    prev: item.path.clone(),
-                })),
+                path: Some(links.len() - 1),
             });
         }
     }
@@ -398,7 +454,7 @@ pub fn best(
     };
     match options.ranking {
         Ranking::Probability => {
-            let limit = part_limit(lattice, &topological(lattice), options.max_parts);
+            let limit = part_limit(lattice, topological(lattice), options.max_parts);
             let layering = if limit == 0 {
                 Layering::Free
             } else {
@@ -409,7 +465,7 @@ pub fn best(
         }
         Ranking::Frequency => {
             let order = topological(lattice);
-            let mut most = max_parts_on_paths(lattice, &order);
+            let mut most = max_parts_on_paths(lattice, order);
             if options.max_parts > 0 {
                 most = most.min(options.max_parts);
             }
@@ -426,5 +482,55 @@ pub fn best(
             all.truncate(k);
             (all, cut_any.then_some(Truncation::SearchSize))
         }
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::lattice::{build, LatticeOptions};
+    use crate::lexicon::LexiconBuilder;
+    use crate::rules::{compile_named, CompileOptions};
+
+    /// `a` and `aa` as words: a run of n letters has Fibonacci(n + 1) readings.
+    fn fibonacci_count(n: usize, max_parts: usize) -> (BigUint, BigUint) {
+        let rules = compile_named("plain", &CompileOptions::default()).unwrap();
+        let mut b = LexiconBuilder::new(&rules.normalizer);
+        b.add_tsv("t", b"a\naa\n").unwrap();
+        let lexicon = b.build().unwrap();
+        let lattice = build(&rules, &lexicon, &"a".repeat(n), &LatticeOptions::default());
+        let (mut x, mut y) = (BigUint::one(), BigUint::one());
+        for _ in 1..n {
+            let z = &x + &y;
+            x = y;
+            y = z;
+        }
+        (count(&lattice, max_parts), y)
+    }
+
+    #[test]
+    fn counts_beyond_machine_integers_are_exact() {
+        let (got, expected) = fibonacci_count(200, 0);
+        assert!(expected.bits() > 128);
+        assert_eq!(got, expected);
+        let (small, expected) = fibonacci_count(60, 0);
+        assert_eq!(small, expected);
+    }
+
+    #[test]
+    fn counts_under_a_part_limit_agree_with_big_integers() {
+        // With a limit below the longest path, the layered count runs; it
+        // must equal the sum of binomials C(parts, n - parts).
+        let (got, _) = fibonacci_count(10, 6);
+        // readings of 10 letters with p parts (p - (10 - p) doubles): p = 5..=6
+        // C(5,5) + C(6,4) = 1 + 15
+        assert_eq!(got, BigUint::from(16u32));
+        // Beyond 128 bits under a limit: 400 letters, at most 300 parts.
+        let (got, _) = fibonacci_count(400, 300);
+        let binomial =
+            |n: usize, k: usize| (0..k).fold(BigUint::one(), |acc, i| acc * (n - i) / (i + 1));
+        let expected = (200..=300).fold(BigUint::zero(), |acc, p| acc + binomial(p, 400 - p));
+        assert!(expected.bits() > 128);
+        assert_eq!(got, expected);
     }
 }

@@ -170,6 +170,7 @@ pub fn compile(
         warnings,
         surface_index: HashMap::new(),
         max_surface_chars: 0,
+        surface_trie: Default::default(),
         end_index: HashMap::new(),
         max_left_chars: 0,
         max_right_chars: 0,
@@ -1394,6 +1395,16 @@ fn index(set: &mut RuleSet) {
     for list in set.surface_index.values_mut() {
         list.sort_by(|a, b| instances[*a].left.cmp(&instances[*b].left).then(a.cmp(b)));
     }
+    let lefts: Vec<&str> = instances.iter().map(|i| i.left.as_str()).collect();
+    let rights: Vec<&str> = instances.iter().map(|i| i.right.as_str()).collect();
+    set.surface_trie = surface_trie::SurfaceTrie::build(
+        set.surface_index
+            .iter()
+            .map(|(s, list)| (s.as_str(), list.as_slice())),
+        &lefts,
+        &rights,
+        instances.iter().map(Instance::surface_chars).collect(),
+    );
 }
 
 /// Renders diagnostics as one text block (for messages outside the CLI).

@@ -13,6 +13,7 @@ pub mod compile;
 pub mod diagnostic;
 pub mod grammar;
 pub mod parse;
+pub(crate) mod surface_trie;
 
 pub use ast::{Condition, Scope, Side};
 pub use compile::{compile, compile_named, CompileOptions};
@@ -59,6 +60,7 @@ pub struct RuleSet {
     pub warnings: Vec<Diagnostic>,
     pub(crate) surface_index: HashMap<String, Vec<usize>>,
     pub(crate) max_surface_chars: usize,
+    pub(crate) surface_trie: surface_trie::SurfaceTrie,
     pub(crate) end_index: HashMap<(String, String), Vec<usize>>,
     pub(crate) max_left_chars: usize,
     pub(crate) max_right_chars: usize,
