@@ -23,7 +23,7 @@
 
 use crate::analyzer::Analyzer;
 use crate::lattice::ScopeFilter;
-use crate::lexicon::{condition_holds, Lexicon, LexiconError, Tags};
+use crate::lexicon::{condition_holds, conditions_hold, Lexicon, LexiconError, Tags};
 use crate::proof;
 use crate::rules::ast::{ChangeItem, ClassMember, RuleFile, Span, Statement};
 use crate::rules::parse::parse_file;
@@ -502,10 +502,7 @@ struct Candidates<'a> {
 impl Candidates<'_> {
     fn any_entry(&self, conds: &[&Condition], min_len: usize) -> bool {
         self.lexicon.entries().any(|e| {
-            e.key.chars().count() >= min_len
-                && conds
-                    .iter()
-                    .all(|c| condition_holds(c, &e.key, &e.readings))
+            e.key.chars().count() >= min_len && conditions_hold(conds, &e.key, &e.readings)
         })
     }
 
@@ -694,10 +691,7 @@ fn never_fires(set: &RuleSet, files: &[RuleFile], lexicon: &Lexicon, out: &mut V
             candidates.any_pattern(&rule.right_conditions.iter().collect::<Vec<_>>());
         let meets = |id: usize, conds: &[Condition]| {
             let e = lexicon.entry(id);
-            e.key.chars().count() >= min_len
-                && conds
-                    .iter()
-                    .all(|c| condition_holds(c, &e.key, &e.readings))
+            e.key.chars().count() >= min_len && conditions_hold(conds, &e.key, &e.readings)
         };
         let mut left_cache: HashMap<(&str, bool), bool> = HashMap::new();
         let mut right_cache: HashMap<&str, bool> = HashMap::new();

@@ -14,7 +14,7 @@
 //! the surface (its own letters, or a junction that prints something).
 
 use crate::lattice::{part_readings, Edge, Lattice, PartSource};
-use crate::lexicon::{condition_holds, Lexicon, Tags};
+use crate::lexicon::{conditions_hold, Lexicon, Tags};
 use crate::rules::{RuleSet, Scope, Separator};
 use crate::search::ScoredPath;
 use serde::Serialize;
@@ -466,9 +466,7 @@ pub fn join(
         })
         .collect();
     let holds = |conds: &[crate::rules::Condition], i: usize| {
-        conds
-            .iter()
-            .all(|c| condition_holds(c, &words[i], &readings[i]))
+        conditions_hold(conds, &words[i], &readings[i])
     };
     let mut result = JoinResult {
         parts: parts.iter().map(|p| p.trim().to_string()).collect(),

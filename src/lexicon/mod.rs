@@ -599,6 +599,27 @@ impl Lexicon {
     }
 }
 
+/// Whether one reading of a form satisfies all the conditions together (a
+/// form without readings is tested as having no tags). `Liebes` (an
+/// inflected adjective, or the noun Liebe in the genitive) satisfies
+/// `pos = noun and inflected != yes` through its noun reading, although its
+/// other reading is inflected.
+pub fn conditions_hold<C: std::borrow::Borrow<Condition>>(
+    conditions: &[C],
+    key: &str,
+    readings: &[Tags],
+) -> bool {
+    let all = |rs: &[Tags]| {
+        conditions
+            .iter()
+            .all(|c| condition_holds(c.borrow(), key, rs))
+    };
+    if readings.len() <= 1 {
+        return all(readings);
+    }
+    readings.iter().any(|r| all(std::slice::from_ref(r)))
+}
+
 /// Evaluates a tag condition against a form and its readings. The key `form`
 /// tests the normalized form itself.
 pub fn condition_holds(condition: &Condition, key: &str, readings: &[Tags]) -> bool {
