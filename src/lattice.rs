@@ -14,7 +14,7 @@
 //! analysis; every edge pair moves forward on the surface, so the graph is
 //! acyclic.
 
-use crate::lexicon::{condition_holds, Lexicon, State, Tags};
+use crate::lexicon::{conditions_hold, Lexicon, State, Tags};
 use crate::normalize::MappedText;
 use crate::rules::{Condition, RuleSet, Scope, Separator};
 use petgraph::graph::{DiGraph, EdgeIndex, NodeIndex};
@@ -258,7 +258,18 @@ impl std::hash::Hasher for IntHasher {
     }
 }
 
-type IntMap<K> = HashMap<K, NodeIndex, std::hash::BuildHasherDefault<IntHasher>>;
+type IntMap<K, V = NodeIndex> = HashMap<K, V, std::hash::BuildHasherDefault<IntHasher>>;
+
+/// Where a word read from a part node ends: it starts at `pos` (after
+/// `carried_chars` carried characters), its letters read directly end at
+/// `q`, and the junction after it ends at `after`.
+#[derive(Clone, Copy)]
+struct WordSpan {
+    pos: usize,
+    carried_chars: usize,
+    q: usize,
+    after: usize,
+}
 
 /// A part node waiting to be expanded.
 #[derive(Clone, Copy)]
@@ -293,6 +304,11 @@ struct Builder<'a> {
     truncated: Option<Truncation>,
     /// Scratch stack of the left-end walk.
     stack: Vec<(u32, State<'a>)>,
+    /// Whether a condition list (by its number) holds for an entry (or, when
+    /// the list tests only tags, for every entry with the same readings).
+    memo: std::cell::RefCell<IntMap<(u32, bool, usize), bool>>,
+    /// Scratch text of the word being tested.
+    key: String,
 }
 
 /// Builds the lattice of `input`.
@@ -347,6 +363,8 @@ pub fn build(rules: &RuleSet, lexicon: &Lexicon, input: &str, options: &LatticeO
             .unwrap_or(rules.settings.min_part_length),
         truncated: None,
         stack: Vec::new(),
+        memo: Default::default(),
+        key: String::new(),
     };
     b.parts.insert((0, 0, None), start);
     b.parts_at[0].push(PendingPart {
@@ -462,13 +480,38 @@ impl<'a> Builder<'a> {
         self.graph.add_edge(from, to, edge);
     }
 
-    fn conditions_hold(&self, conds: &[Condition], key: &str, source: PartSource) -> bool {
+    /// Whether the conditions `conds` (numbered `list` in the rule-set's
+    /// [`ConditionIds`](crate::rules::surface_trie::ConditionIds)) hold for a part;
+    /// remembered per lexicon entry.
+    fn conditions_hold(
+        &self,
+        conds: &[Condition],
+        list: u32,
+        key: &str,
+        source: PartSource,
+    ) -> bool {
         if conds.is_empty() {
             return true;
         }
-        let mut scratch = Vec::new();
-        let readings = part_readings(self.rules, self.lexicon, source, &mut scratch);
-        conds.iter().all(|c| condition_holds(c, key, readings))
+        let evaluate = || {
+            let mut scratch = Vec::new();
+            let readings = part_readings(self.rules, self.lexicon, source, &mut scratch);
+            conditions_hold(conds, key, readings)
+        };
+        let PartSource::Entry(id) = source else {
+            return evaluate();
+        };
+        let by_readings = !self.rules.condition_ids.uses_form[list as usize];
+        let memo_key = match self.lexicon.reading_set(id) {
+            Some(set) if by_readings => (list, true, set),
+            _ => (list, false, id),
+        };
+        if let Some(&known) = self.memo.borrow().get(&memo_key) {
+            return known;
+        }
+        let holds = evaluate();
+        self.memo.borrow_mut().insert(memo_key, holds);
+        holds
     }
 
     /// Checks that apply to every word read from `node`, whatever follows it.
@@ -480,11 +523,19 @@ impl<'a> Builder<'a> {
         source: PartSource,
     ) -> bool {
         if let Some(rule) = pending {
-            if !self.conditions_hold(&self.rules.rules[rule].right_conditions, key, source) {
+            let conds = &self.rules.rules[rule].right_conditions;
+            if !self.conditions_hold(conds, self.rules.condition_ids.right[rule], key, source) {
                 return false;
             }
         }
-        if node == self.start && !self.conditions_hold(&self.rules.edge_start, key, source) {
+        if node == self.start
+            && !self.conditions_hold(
+                &self.rules.edge_start,
+                self.rules.condition_ids.edge_start,
+                key,
+                source,
+            )
+        {
             return false;
         }
         true
@@ -544,7 +595,12 @@ impl<'a> Builder<'a> {
                 let whole = node == self.start;
                 if self.aligned(key, carried_chars, 0)
                     && self.word_allowed(node, part.pending, key, PartSource::Entry(id))
-                    && self.conditions_hold(&self.rules.edge_end, key, PartSource::Entry(id))
+                    && self.conditions_hold(
+                        &self.rules.edge_end,
+                        self.rules.condition_ids.edge_end,
+                        key,
+                        PartSource::Entry(id),
+                    )
                     && (whole || key.chars().count() >= self.min_part)
                 {
                     let edge = WordEdge {
@@ -576,7 +632,13 @@ impl<'a> Builder<'a> {
                 if let Some((from, to)) = left.group {
                     if let Some(id) = here.entry() {
                         let group = &surface.instances[from as usize..to as usize];
-                        self.group_edges(part, pos, carried_chars, q, after, group, id);
+                        let span = WordSpan {
+                            pos,
+                            carried_chars,
+                            q,
+                            after,
+                        };
+                        self.group_edges(part, span, group, id);
                     }
                 }
                 for &(byte, child) in left.children.iter().rev() {
@@ -590,21 +652,30 @@ impl<'a> Builder<'a> {
     }
 
     /// The word edges for entry `id` ending before the junction instances
-    /// `group` (one surface, one left end) at `q`.
-    #[allow(clippy::too_many_arguments)]
+    /// `group` (one surface, one left end) at `span.q`. The entry's key is
+    /// `carried + chars[pos..q] + left` (the index was walked along it).
     fn group_edges(
         &mut self,
         part: PendingPart<'a>,
-        pos: usize,
-        carried_chars: usize,
-        q: usize,
-        after: usize,
+        span: WordSpan,
         group: &'a [usize],
         id: usize,
     ) {
         let rules = self.rules;
-        let entry = self.lexicon.entry(id);
-        let key = &entry.key;
+        let Some(&first) = group.first() else {
+            return;
+        };
+        let left: &str = &rules.instances[first].left;
+        let left_chars = left.chars().count();
+        if span.carried_chars + (span.q - span.pos) + left_chars < self.min_part {
+            return;
+        }
+        let mut key_buf = std::mem::take(&mut self.key);
+        key_buf.clear();
+        key_buf.push_str(part.carried);
+        key_buf.extend(&self.chars[span.pos..span.q]);
+        key_buf.push_str(left);
+        let key = key_buf.as_str();
         let source = PartSource::Entry(id);
         // What depends only on the entry and the left end is checked once.
         let mut word_ok: Option<bool> = None;
@@ -614,29 +685,31 @@ impl<'a> Builder<'a> {
                 continue;
             }
             let ok = *word_ok.get_or_insert_with(|| {
-                self.aligned(key, carried_chars, inst.left.chars().count())
-                    && key.chars().count() >= self.min_part
+                self.aligned(key, span.carried_chars, left_chars)
                     && self.word_allowed(part.node, part.pending, key, source)
             });
             if !ok {
-                return;
+                break;
             }
             let rule = &rules.rules[inst.rule];
-            if !self.conditions_hold(&rule.left_conditions, key, source) {
+            let list = rules.condition_ids.left[inst.rule];
+            if !self.conditions_hold(&rule.left_conditions, list, key, source) {
                 continue;
             }
             let pending_next = (!rule.right_conditions.is_empty()).then_some(inst.rule);
             let edge = WordEdge {
                 source,
-                key: key.clone(),
+                key: key.to_string(),
                 carried: part.carried.to_string(),
                 left_end: inst.left.clone(),
-                start: pos,
-                end: q,
-                frequency: entry.frequency,
+                start: span.pos,
+                end: span.q,
+                frequency: self.lexicon.frequency(id),
             };
+            let (q, after) = (span.q, span.after);
             self.join_to(part.node, q, inst_id, after, pending_next, Edge::Word(edge));
         }
+        self.key = key_buf;
     }
 
     fn join_to(
@@ -717,7 +790,12 @@ impl<'a> Builder<'a> {
                     frequency: rules.settings.pattern_frequency,
                 };
                 if q == n {
-                    if self.conditions_hold(&rules.edge_end, &key, source) {
+                    if self.conditions_hold(
+                        &rules.edge_end,
+                        rules.condition_ids.edge_end,
+                        &key,
+                        source,
+                    ) {
                         self.add_edge(node, self.end, Edge::Word(edge.clone()));
                     }
                     continue;
@@ -734,7 +812,8 @@ impl<'a> Builder<'a> {
                             continue;
                         }
                         let rule = &rules.rules[inst.rule];
-                        if !self.conditions_hold(&rule.left_conditions, &key, source) {
+                        let list = rules.condition_ids.left[inst.rule];
+                        if !self.conditions_hold(&rule.left_conditions, list, &key, source) {
                             continue;
                         }
                         let pending_next = (!rule.right_conditions.is_empty()).then_some(inst.rule);

@@ -100,11 +100,27 @@ impl LazyEntries {
         self.cache.len()
     }
 
+    fn record(&self, id: usize) -> (f64, usize) {
+        let rec = &self.records.as_ref()[id * 8..id * 8 + 8];
+        let frequency = f32::from_le_bytes([rec[0], rec[1], rec[2], rec[3]]) as f64;
+        let meta = u32::from_le_bytes([rec[4], rec[5], rec[6], rec[7]]) as usize;
+        (frequency, meta)
+    }
+
+    /// An entry's frequency, read from its record (without building the entry).
+    pub(super) fn frequency(&self, id: usize) -> f64 {
+        self.record(id).0
+    }
+
+    /// The number of an entry's set of readings: entries with the same
+    /// number have the same readings.
+    pub(super) fn reading_set(&self, id: usize) -> usize {
+        self.record(id).1 >> 2
+    }
+
     pub(super) fn get(&self, id: usize) -> &Entry {
         self.cache[id].get_or_init(|| {
-            let rec = &self.records.as_ref()[id * 8..id * 8 + 8];
-            let frequency = f32::from_le_bytes([rec[0], rec[1], rec[2], rec[3]]) as f64;
-            let meta = u32::from_le_bytes([rec[4], rec[5], rec[6], rec[7]]) as usize;
+            let (frequency, meta) = self.record(id);
             let key = key_of(&self.index, id as u64);
             let form = match meta & 3 {
                 1 => capitalise(&key),

@@ -485,6 +485,25 @@ impl Lexicon {
         }
     }
 
+    /// An entry's frequency (the same as `entry(id).frequency`, without
+    /// building the entry of a compiled lexicon).
+    pub fn frequency(&self, id: usize) -> f64 {
+        match &self.store {
+            Store::Owned(v) => v[id].frequency,
+            Store::Lazy(l) => l.frequency(id),
+        }
+    }
+
+    /// For a compiled lexicon, the number of an entry's set of readings
+    /// (entries with the same number have the same readings); `None` for
+    /// other lexicons.
+    pub fn reading_set(&self, id: usize) -> Option<usize> {
+        match &self.store {
+            Store::Owned(_) => None,
+            Store::Lazy(l) => Some(l.reading_set(id)),
+        }
+    }
+
     /// Looks up a normalized key.
     pub fn get(&self, key: &str) -> Option<usize> {
         self.index.get(key.as_bytes()).map(|v| v as usize)

@@ -171,6 +171,7 @@ pub fn compile(
         surface_index: HashMap::new(),
         max_surface_chars: 0,
         surface_trie: Default::default(),
+        condition_ids: Default::default(),
         end_index: HashMap::new(),
         max_left_chars: 0,
         max_right_chars: 0,
@@ -1405,6 +1406,8 @@ fn index(set: &mut RuleSet) {
         &rights,
         instances.iter().map(Instance::surface_chars).collect(),
     );
+    set.condition_ids =
+        surface_trie::ConditionIds::build(&set.rules, &set.edge_start, &set.edge_end);
 }
 
 /// Renders diagnostics as one text block (for messages outside the CLI).

@@ -61,6 +61,7 @@ pub struct RuleSet {
     pub(crate) surface_index: HashMap<String, Vec<usize>>,
     pub(crate) max_surface_chars: usize,
     pub(crate) surface_trie: surface_trie::SurfaceTrie,
+    pub(crate) condition_ids: surface_trie::ConditionIds,
     pub(crate) end_index: HashMap<(String, String), Vec<usize>>,
     pub(crate) max_left_chars: usize,
     pub(crate) max_right_chars: usize,

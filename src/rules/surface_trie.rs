@@ -10,6 +10,56 @@
 //! trie is walked depth first with children in byte order, which visits the
 //! left ends in the same order.
 
+/// Numbers for the condition lists of a rule-set: lists with the same
+/// tests (whichever side they are written for) get the same number, so the
+/// lattice evaluates each list once per entry. Built with the rule-set; the
+/// lattice treats an empty list as always true without looking here.
+#[derive(Debug, Clone, Default)]
+pub(crate) struct ConditionIds {
+    /// Per rule: its left conditions' number.
+    pub(crate) left: Vec<u32>,
+    /// Per rule: its right conditions' number.
+    pub(crate) right: Vec<u32>,
+    /// The `edge start` conditions' number.
+    pub(crate) edge_start: u32,
+    /// The `edge end` conditions' number.
+    pub(crate) edge_end: u32,
+    /// Per number: whether the list tests the form itself (`form`), not
+    /// only tags.
+    pub(crate) uses_form: Vec<bool>,
+}
+
+impl ConditionIds {
+    /// Numbers the lists of `rules` and the edge conditions.
+    pub(crate) fn build<'c>(
+        rules: &'c [super::JunctionRule],
+        edge_start: &'c [super::Condition],
+        edge_end: &'c [super::Condition],
+    ) -> ConditionIds {
+        type Tests<'c> = Vec<(&'c str, &'c Option<(bool, Vec<String>)>)>;
+        let mut seen: std::collections::HashMap<Tests<'c>, u32> = std::collections::HashMap::new();
+        let mut uses_form = Vec::new();
+        let mut id = |list: &'c [super::Condition]| -> u32 {
+            let tests: Tests = list.iter().map(|c| (c.key.as_str(), &c.test)).collect();
+            let next = seen.len() as u32;
+            *seen.entry(tests).or_insert_with(|| {
+                uses_form.push(list.iter().any(|c| c.key == "form"));
+                next
+            })
+        };
+        let left = rules.iter().map(|r| id(&r.left_conditions)).collect();
+        let right = rules.iter().map(|r| id(&r.right_conditions)).collect();
+        let (edge_start, edge_end) = (id(edge_start), id(edge_end));
+        ConditionIds {
+            left,
+            right,
+            edge_start,
+            edge_end,
+            uses_form,
+        }
+    }
+}
+
 /// A node of the surface trie.
 #[derive(Debug, Clone, Default)]
 struct SurfaceNode {
