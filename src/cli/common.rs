@@ -1,5 +1,6 @@
 //! Options shared by several subcommands, input reading and output writing.
 
+use super::progress::Progress;
 use clap::{Args, ValueEnum};
 use juncture::lattice::ScopeFilter;
 use juncture::lexicon::Lexicon;
@@ -203,6 +204,16 @@ fn one_record(
 /// Ctrl-C stops the loop after the current record (exit status 130).
 pub fn for_each_input(
     args: &[String],
+    each: impl FnMut(InputLine) -> Result<(), Failure>,
+) -> Result<(), Failure> {
+    for_each_input_with(args, None, each)
+}
+
+/// [`for_each_input`], advancing `progress` (if any) by the bytes of each
+/// line read from standard input.
+pub fn for_each_input_with(
+    args: &[String],
+    mut progress: Option<Progress>,
     mut each: impl FnMut(InputLine) -> Result<(), Failure>,
 ) -> Result<(), Failure> {
     install_interrupt_handler();
@@ -221,6 +232,9 @@ pub fn for_each_input(
         if n == 0 {
             break;
         }
+        if let Some(p) = progress.as_mut() {
+            p.advance(n);
+        }
         if buf.last() == Some(&b'\n') {
             buf.pop();
         }
@@ -238,6 +252,9 @@ pub fn for_each_input(
             }),
         };
         one_record(line, &mut each)?;
+    }
+    if let Some(p) = &progress {
+        p.finish();
     }
     Ok(())
 }

@@ -7,6 +7,7 @@ mod explain;
 mod induce;
 mod join;
 mod lexicon_cmd;
+mod progress;
 mod rules_cmd;
 mod split;
 

@@ -1,8 +1,9 @@
 //! `juncture split`: the main job.
 
 use super::common::{
-    for_each_input, Failure, FormatArg, InputLine, RecordWriter, ScopeArg, Source,
+    for_each_input_with, Failure, FormatArg, InputLine, RecordWriter, ScopeArg, Source,
 };
+use super::progress::Progress;
 use super::{EXIT_OK, EXIT_SOME_FAILED};
 use clap::{Args, ValueEnum};
 use juncture::analyzer::{index_tokens, Analyzer, SplitRecord, TokenRecord};
@@ -124,6 +125,11 @@ pub struct SplitArgs {
     /// Script of forms and surfaces in the output; default (`auto`): the input's.
     #[arg(long, value_enum, value_name = "SCRIPT")]
     pub output_script: Option<ScriptArg>,
+    /// Do not show the progress bar. It is shown on stderr only when stderr
+    /// is a terminal, stdout is not, and standard input is a file (`juncture
+    /// split < words.txt > out.jsonl`): bytes read of the file's size.
+    #[arg(long)]
+    pub no_progress: bool,
 }
 
 /// A script for `--script` / `--output-script`.
@@ -184,7 +190,7 @@ pub fn run(args: SplitArgs) -> Result<i32, Failure> {
     let batch_size = if jobs == 1 { 1 } else { 256 * jobs };
     let mut batch: Vec<InputLine> = Vec::with_capacity(batch_size);
     let mut caches: Vec<HashMap<String, Arc<SplitRecord>>> = vec![HashMap::new(); jobs];
-    for_each_input(&args.words, |line| {
+    for_each_input_with(&args.words, progress(&args), |line| {
         if let (Some(analysed), Ok(text)) = (analysed, &line) {
             let to = args.output_script.and_then(ScriptArg::script);
             let record = scripted::split_with(text, args.script.script(), analysed, to, |t| {
@@ -216,6 +222,15 @@ pub fn run(args: SplitArgs) -> Result<i32, Failure> {
     } else {
         EXIT_OK
     })
+}
+
+/// The progress bar, unless switched off or words were given as arguments.
+fn progress(args: &SplitArgs) -> Option<Progress> {
+    if args.words.is_empty() {
+        Progress::for_stdin(!args.no_progress)
+    } else {
+        None
+    }
 }
 
 /// Output format of `split`: the common ones plus `terms`.
@@ -297,7 +312,7 @@ fn run_tokens(args: &SplitArgs, analyzer: &Analyzer, k: usize) -> Result<i32, Fa
             || output::split_tsv(&record.record),
         )
     };
-    for_each_input(&args.words, |line| match line {
+    for_each_input_with(&args.words, progress(&args), |line| match line {
         Ok(text) if terms => {
             for token in index_tokens(&text) {
                 one(token, &mut writer)?;
