@@ -32,7 +32,7 @@ pub enum LexiconAction {
         /// Rule-set whose normalization the index is built for.
         #[arg(long, short = 'r', default_value = "german", value_name = "NAME|PATH")]
         rules: String,
-        /// Also include this bundled lexicon's TSV files.
+        /// Also include this bundled lexicon's entries.
         #[arg(long, value_name = "NAME")]
         bundled: Option<String>,
         /// Select a variant of the rule-set (changes normalization).
@@ -55,8 +55,16 @@ pub enum LexiconAction {
     /// The output is what the bundled Sanskrit lexicon is made of: every
     /// inflected form with its tags, every nominal stem as a compound first
     /// member (`role=first`), and the tags `bound`, `final` and `pragrhya`
-    /// that rule-sets/sanskrit.jr tests. With no STEMS files, the bundled
-    /// Sanskrit lexicon itself.
+    /// that rule-sets/sanskrit.jr tests.
+    ///
+    /// With no STEMS files (and no --paradigms): the bundled Sanskrit lexicon
+    /// itself, generated from lexicons/sanskrit/. The binary embeds it in
+    /// compiled form (lexicons/compiled/sanskrit.jlex), which
+    /// scripts/build_compiled_lexicons.sh rebuilds after the tables or stem
+    /// lists change: it writes this output to a temporary file
+    /// sanskrit-generated.tsv (the name is recorded as the compiled file's
+    /// source) and compiles that with `juncture lexicon build FILE --rules
+    /// sanskrit`.
     Expand {
         /// Stem files (stem, paradigm class, tags).
         stems: Vec<PathBuf>,

@@ -1,5 +1,12 @@
-//! The bundled Sanskrit lexicon, built when it is loaded from paradigm tables
-//! (a special case among the bundled lexicons, which are otherwise TSV files).
+//! The bundled Sanskrit lexicon, generated from paradigm tables (a special
+//! case among the bundled lexicons, which are otherwise TSV files).
+//!
+//! This generator is the source of truth, but it does not run when the
+//! lexicon is loaded: `scripts/build_compiled_lexicons.sh` writes its output
+//! (`juncture lexicon expand`) and compiles it with the `sanskrit` rule-set's
+//! normalization into `lexicons/compiled/sanskrit.jlex`, which is embedded
+//! like the Germanic lexicons (`bundled::COMPILED`);
+//! `tests/compiled_lexicons.rs` fails while that file is stale.
 //!
 //! ```text
 //! lexicons/sanskrit/paradigms.yaml ─┐
@@ -35,7 +42,7 @@
 //!   both.
 //!
 //! Forms carry no frequency (every part then weighs the same in ranking).
-//! The text is built once per process and shared.
+//! The text ([`tsv`]) is built once per process and shared.
 
 use crate::paradigm::{parse_stems, ParadigmTables};
 use std::collections::BTreeMap;
@@ -43,6 +50,16 @@ use std::sync::OnceLock;
 
 /// File name under which the generated text is reported.
 pub const SOURCE_NAME: &str = "lexicons/sanskrit (generated from paradigms.yaml, stems.tsv, sanskrit-sandhi-stems.tsv, indeclinables.tsv, verbs.tsv)";
+
+/// The generator's input files in the repository: the paradigm tables, then
+/// the stem files in the order they are expanded.
+pub const INPUTS: &[&str] = &[
+    "lexicons/sanskrit/paradigms.yaml",
+    "lexicons/sanskrit/stems.tsv",
+    "lexicons/sanskrit-sandhi-stems.tsv",
+    "lexicons/sanskrit/indeclinables.tsv",
+    "lexicons/sanskrit/verbs.tsv",
+];
 
 const PARADIGMS: &str = include_str!("../../lexicons/sanskrit/paradigms.yaml");
 const STEMS: &[(&str, &str)] = &[
@@ -212,6 +229,13 @@ mod tests {
         assert_eq!(compound_stem("diś", "ś-f"), "dik");
         assert_eq!(compound_stem("deva", "a-m"), "deva");
         assert_eq!(compound_stem("bhagavat", "vat"), "bhagavat");
+    }
+
+    #[test]
+    fn inputs_list_the_embedded_files() {
+        let embedded: Vec<&str> = STEMS.iter().map(|(name, _)| *name).collect();
+        assert_eq!(INPUTS[0], "lexicons/sanskrit/paradigms.yaml");
+        assert_eq!(&INPUTS[1..], embedded.as_slice());
     }
 
     #[test]
