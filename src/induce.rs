@@ -421,6 +421,23 @@ struct Group {
     map: Vec<(String, String)>,
 }
 
+/// Whether an example can be written as an `example` clause: the rule
+/// language reads a part up to white space, `+`, `#` or an arrow, and the
+/// surface up to the end of the line or a comment. Others are left out of
+/// the rule text (the rule still explains them).
+fn example_writable(parts: &[String], surface: &str) -> bool {
+    let part_ok = |p: &String| {
+        !p.is_empty()
+            && !p.chars().any(|c| c.is_whitespace() || c == '+' || c == '#')
+            && !["->", "→", "=>"].iter().any(|a| p.contains(a))
+    };
+    parts.iter().all(part_ok)
+        && !surface.trim().is_empty()
+        && surface.trim() == surface
+        && !surface.contains(" #")
+        && !surface.contains('\n')
+}
+
 /// Proposes junction rules for examples. The text returned compiles, and
 /// every example a rule claims joins to its surface with the rules.
 pub fn induce(examples_text: &str, options: &InduceOptions) -> Result<Induction, InduceError> {
@@ -1111,8 +1128,9 @@ impl<'a> Builder<'a> {
             ));
             out.push_str(&format!("rule {}: {}\n", r.name, r.change));
             out.push_str(&format!("  cost {}\n", r.cost));
+            let writable = |e: &&&InduceExample| example_writable(&e.parts, &e.surface);
             for line in r.examples.iter().filter(|l| full_line.contains(l)).take(2) {
-                if let Some(e) = by_line.get(line) {
+                if let Some(e) = by_line.get(line).filter(writable) {
                     out.push_str(&format!(
                         "  example {} -> {}\n",
                         e.parts.join(" + "),
