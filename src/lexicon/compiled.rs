@@ -90,7 +90,13 @@ impl AsRef<[u8]> for IndexBytes {
 pub(super) struct LazyEntries {
     index: fst::Map<IndexBytes>,
     records: IndexBytes,
-    reading_sets: Vec<Vec<Tags>>,
+    /// The whole file; `reading_sets` are byte ranges of its header's JSON.
+    bytes: IndexBytes,
+    /// Where each interned set of readings is written (JSON), decoded when an
+    /// entry that has it is first built: a lexicon with lemma tags has
+    /// hundreds of thousands of sets, and decoding them all at start-up
+    /// would cost more time and memory than the rest of the load.
+    reading_sets: Vec<(u32, u32)>,
     spellings: std::collections::HashMap<usize, String>,
     cache: Vec<OnceLock<Entry>>,
 }
@@ -131,11 +137,7 @@ impl LazyEntries {
                     .unwrap_or_else(|| key.clone()),
                 _ => key.clone(),
             };
-            let readings = self
-                .reading_sets
-                .get(meta >> 2)
-                .cloned()
-                .unwrap_or_default();
+            let readings = self.readings(meta >> 2);
             Entry {
                 key,
                 form,
@@ -143,6 +145,22 @@ impl LazyEntries {
                 readings,
             }
         })
+    }
+}
+
+impl LazyEntries {
+    /// Set of readings number `set` (empty if the file does not have it; the
+    /// ranges were checked to be JSON when the file was loaded).
+    fn readings(&self, set: usize) -> Vec<Tags> {
+        let Some(&(start, len)) = self.reading_sets.get(set) else {
+            return Vec::new();
+        };
+        let (start, len) = (start as usize, len as usize);
+        self.bytes
+            .as_ref()
+            .get(start..start + len)
+            .and_then(|raw| serde_json::from_slice(raw).ok())
+            .unwrap_or_default()
     }
 }
 
@@ -178,6 +196,19 @@ fn key_of(index: &fst::Map<IndexBytes>, id: u64) -> String {
         node = fst.node(t.addr);
     }
     String::from_utf8(key).unwrap_or_default()
+}
+
+/// The header as read: like [`Header`], with the sets of readings left as
+/// JSON text (see [`LazyEntries`]).
+#[derive(serde::Deserialize)]
+struct HeaderIn<'a> {
+    entries: usize,
+    total_frequency: f64,
+    tag_keys: Vec<String>,
+    normalizer: String,
+    #[serde(borrow)]
+    reading_sets: Vec<&'a serde_json::value::RawValue>,
+    spellings: Vec<(usize, String)>,
 }
 
 #[derive(serde::Serialize, serde::Deserialize)]
@@ -296,8 +327,26 @@ pub fn load(
         ))
     };
     let hlen = r.u32().ok_or_else(corrupt)? as usize;
-    let header: Header =
-        serde_json::from_slice(r.take(hlen).ok_or_else(corrupt)?).map_err(|_| corrupt())?;
+    let header_bytes = r.take(hlen).ok_or_else(corrupt)?;
+    let header: HeaderIn = serde_json::from_slice(header_bytes).map_err(|_| corrupt())?;
+    // Byte ranges of the sets of readings within the file.
+    let base = all.as_ptr() as usize;
+    let mut reading_sets = Vec::with_capacity(header.reading_sets.len());
+    for raw in &header.reading_sets {
+        let text = raw.get();
+        let start = (text.as_ptr() as usize).wrapping_sub(base);
+        if start
+            .checked_add(text.len())
+            .is_none_or(|end| end > all.len())
+        {
+            return Err(corrupt());
+        }
+        let range = (u32::try_from(start), u32::try_from(text.len()));
+        let (Ok(start), Ok(len)) = range else {
+            return Err(corrupt());
+        };
+        reading_sets.push((start, len));
+    }
     if let Some(expected_normalizer) = expected_normalizer.filter(|e| *e != header.normalizer) {
         return Err(bad(format!(
             "the lexicon was compiled for another normalization ({}) than this rule-set's ({expected_normalizer}); {rebuild}",
@@ -325,7 +374,8 @@ pub fn load(
     let lazy = LazyEntries {
         index: index.clone(),
         records: bytes.slice(rec_start, rec_start + rec_len),
-        reading_sets: header.reading_sets,
+        bytes: bytes.clone(),
+        reading_sets,
         spellings: header.spellings.into_iter().collect(),
         cache: (0..header.entries).map(|_| OnceLock::new()).collect(),
     };
