@@ -639,6 +639,10 @@ pub fn conditions_hold<C: std::borrow::Borrow<Condition>>(
     readings.iter().any(|r| all(std::slice::from_ref(r)))
 }
 
+/// The condition value that matches any value of the key (`left.lemma != *`:
+/// the reading has no `lemma` tag).
+pub const ANY_VALUE: &str = "*";
+
 /// Evaluates a tag condition against a form and its readings. The key `form`
 /// tests the normalized form itself.
 pub fn condition_holds(condition: &Condition, key: &str, readings: &[Tags]) -> bool {
@@ -647,7 +651,9 @@ pub fn condition_holds(condition: &Condition, key: &str, readings: &[Tags]) -> b
     }
     let is_form = condition.key == "form";
     let matches = |v: &str| match &condition.test {
-        Some((_, values)) => v.split('|').any(|x| values.iter().any(|w| w == x)),
+        Some((_, values)) => v
+            .split('|')
+            .any(|x| values.iter().any(|w| w == x || w == ANY_VALUE)),
         None => true,
     };
     let test = |v: Option<&str>| v.is_some_and(matches);
@@ -677,6 +683,59 @@ mod tests {
         b.add_tsv("t.tsv", text.as_bytes()).unwrap();
         let issues = b.issues().to_vec();
         (b.build().unwrap(), issues)
+    }
+
+    fn cond(key: &str, equal: bool, value: &str) -> Condition {
+        Condition {
+            side: crate::rules::ast::Side::Left,
+            key: key.into(),
+            test: Some((equal, vec![value.into()])),
+        }
+    }
+
+    fn tags(pairs: &[(&str, &str)]) -> Tags {
+        pairs
+            .iter()
+            .map(|(k, v)| (k.to_string(), v.to_string()))
+            .collect()
+    }
+
+    #[test]
+    fn any_value_matches_every_value_and_its_negation_needs_the_tag_absent() {
+        let with = [tags(&[("pos", "noun"), ("lemma", "Huhn")])];
+        let without = [tags(&[("pos", "noun")])];
+        assert!(condition_holds(&cond("lemma", true, "*"), "hühner", &with));
+        assert!(!condition_holds(
+            &cond("lemma", false, "*"),
+            "hühner",
+            &with
+        ));
+        assert!(condition_holds(
+            &cond("lemma", false, "*"),
+            "huhn",
+            &without
+        ));
+        assert!(!condition_holds(
+            &cond("lemma", true, "*"),
+            "huhn",
+            &without
+        ));
+    }
+
+    #[test]
+    fn a_sides_conditions_hold_together_in_one_reading() {
+        // liebes: an inflected adjective, or the noun Liebe in the genitive.
+        let readings = [
+            tags(&[("pos", "adj"), ("inflected", "yes")]),
+            tags(&[("pos", "noun"), ("lemma", "Liebe")]),
+        ];
+        let noun_not_inflected = [cond("pos", true, "noun"), cond("inflected", false, "yes")];
+        assert!(conditions_hold(&noun_not_inflected, "liebes", &readings));
+        // No single reading is an adjective that is not inflected.
+        let adj_not_inflected = [cond("pos", true, "adj"), cond("inflected", false, "yes")];
+        assert!(!conditions_hold(&adj_not_inflected, "liebes", &readings));
+        // Although a reading is an adjective.
+        assert!(condition_holds(&adj_not_inflected[0], "liebes", &readings));
     }
 
     #[test]
