@@ -305,10 +305,13 @@ class Tagger:
 # other readings from the lower-case one (each spelling scored the way it is
 # written in running text).  A second reading is kept when it is within
 # SECOND_MARGIN of the best one.
-SECOND_MARGIN = 1.5
+SECOND_MARGIN = 3.0
 # A noun is a proper noun only when HanTa's proper-noun reading beats its
-# common-noun reading clearly (Hof, Baum: NE and NN within 1; Tom, Ben: NE only).
-PROPER_MARGIN = 1.5
+# common-noun reading clearly.  Forms HanTa knows as both score within about
+# 5 of each other (Hof +0.2, Rose +1.6, Bad +2.6, Wolf +3.5, Mark -5.2);
+# names it knows only as names have no common-noun reading at all (Tom,
+# Bern, Müller, Paris).
+PROPER_MARGIN = 5.0
 # Finite verb forms and inflected attributive adjectives are not compound
 # members (sprach, kamen, große); imperatives are the bare verb stem (fahr,
 # schwimm) and participles are used as adjectives, so those are not marked.
@@ -316,7 +319,7 @@ INFLECTED_TAGS = ("VVFIN", "VAFIN", "VMFIN", "ADJA")
 # Unknown short forms.  HanTa scores the words of its lexicon above about -20
 # (log-probability) and guesses unknown strings far lower (-26 and below).
 # A form of at most UNKNOWN_MAX_LEN letters that scores below UNKNOWN_SCORE
-# on both spellings, and is not the lemma of another listed form, is a
+# on both spellings, and is not the lemma of a form HanTa knows, is a
 # fragment of hyphenation, a foreign token or a typo (cke, ssel, ucht, esben,
 # jau), and is dropped.  Huhn stays: it is the lemma of Hühner.
 UNKNOWN_SCORE = -25.0
@@ -409,14 +412,61 @@ class GermanTagger:
         for pos in chosen:
             _, tag, _, word = groups[pos]
             r = dict(pos=pos, proper=False, lemma=None, inflected=False)
-            if pos == "noun":
-                r["proper"] = ne > -math.inf and ne > nn + PROPER_MARGIN
-            if not r["proper"]:
-                r["lemma"] = self._lemma(word, tag, form)
+            if pos == "noun" and ne > -math.inf:
+                # How much better the proper-noun reading is (decided in finish_reading).
+                r["name_margin"] = ne - nn if nn > -math.inf else math.inf
+            r["lemma"] = self._lemma(word, tag, form)
             stts = tag.replace("(", "").replace(")", "")
             r["inflected"] = r["lemma"] is not None and stts.startswith(INFLECTED_TAGS)
             out.append(r)
         return out
+
+
+def is_unknown(score):
+    """HanTa does not know the form: its best reading scores below UNKNOWN_SCORE."""
+    return score is not None and score < UNKNOWN_SCORE
+
+
+def strip_lemma(r):
+    return dict(r, lemma=None, inflected=False)
+
+
+def second_reading_rule(readings):
+    """A function word keeps its one reading: the noun homographs of `aus`,
+    `in`, `ich`, `elf` (das Aus, das Ich, die Elf) would make parts of
+    Ausweis, Termin, freundlich and Elfenbein."""
+    if readings and readings[0]["pos"] == "other":
+        return readings[:1]
+    return readings
+
+
+def finish_reading(r):
+    """Decides `proper` from HanTa's margin; a proper noun keeps no lemma."""
+    r = dict(r)
+    margin = r.pop("name_margin", None)
+    if margin is not None and margin > PROPER_MARGIN:
+        r.update(proper=True, lemma=None, inflected=False)
+    return r
+
+
+def noun_lemmas(tagged):
+    """Lower-cased lemmas of the noun readings."""
+    return {r["lemma"].lower() for _, _, rs, _ in tagged for r in rs
+            if r.get("lemma") and r["pos"] == "noun"}
+
+
+def with_lemma_reading(entry, lemmas):
+    """A form that is the lemma of a listed noun form is a noun: HanTa may not
+    know it by itself (Huhn, known only as the lemma of Hühner).  An unknown
+    form gets the noun reading alone, a known one gets it added, except a
+    function word (see second_reading_rule)."""
+    form, freq, readings, score = entry
+    if form not in lemmas or any(r["pos"] in ("noun", "other") for r in readings):
+        return entry
+    noun = dict(pos="noun", proper=False, lemma=None, inflected=False)
+    if is_unknown(score) or not readings:
+        return (form, freq, [noun], score)
+    return (form, freq, readings + [noun], score)
 
 
 def reading_tags(r):
@@ -462,7 +512,24 @@ def wordlist_for(lang):
     return "large" if lang in wordfreq.available_languages("large") else "best"
 
 
-def build(lang, outdir):
+def load_tag_cache(path, lang):
+    """HanTa's readings per form from an earlier run (--tag-cache), to re-run the
+    later steps quickly.  The cache holds exactly what tagging returned."""
+    import json
+    if not path or not os.path.exists(f"{path}.{lang}"):
+        return {}
+    with open(f"{path}.{lang}", encoding="utf-8") as f:
+        return {k: tuple(v) for k, v in json.load(f).items()}
+
+
+def save_tag_cache(path, lang, cache):
+    import json
+    if path:
+        with open(f"{path}.{lang}", "w", encoding="utf-8") as f:
+            json.dump(cache, f, ensure_ascii=False)
+
+
+def build(lang, outdir, tag_cache=None):
     import wordfreq
     cfg = LANGS[lang]
     wl = wordlist_for(lang)
@@ -524,25 +591,35 @@ def build(lang, outdir):
     lines = []
     second = 0
     tagged = []
+    cache = load_tag_cache(tag_cache, lang)
     for i, (form, freq) in enumerate(entries):
-        readings = tagger.readings(form) if tagger is not None else []
-        score = getattr(tagger, "last_score", None)
-        tagged.append((form, freq, readings, score))
+        if form in cache:
+            readings, score = cache[form]
+        else:
+            readings = tagger.readings(form) if tagger is not None else []
+            score = getattr(tagger, "last_score", None)
+            cache[form] = (readings, score)
+        tagged.append((form, freq, second_reading_rule([finish_reading(r) for r in readings]), score))
         if tagger is not None and i and i % 50_000 == 0:
             print(f"[{lang}] tagged {i} ({time.time() - t0:.0f}s)", file=sys.stderr, flush=True)
+    save_tag_cache(tag_cache, lang, cache)
     if lang == "de":
+        # HanTa's lemma of a form it does not know is a guess (App -> Ap):
+        # unknown forms keep no lemma and are not marked inflected.
+        tagged = [(f, q, [strip_lemma(r) for r in rs] if is_unknown(sc) else rs, sc)
+                  for f, q, rs, sc in tagged]
         lemmas = {r["lemma"].lower() for _, _, rs, _ in tagged for r in rs if r.get("lemma")}
         kept = []
         for e in tagged:
             form, _, _, score = e
-            if (len(form) <= UNKNOWN_MAX_LEN and score is not None and score < UNKNOWN_SCORE
-                    and form not in lemmas):
+            if len(form) <= UNKNOWN_MAX_LEN and is_unknown(score) and form not in lemmas:
                 dropped["unknown"] = dropped.get("unknown", 0) + 1
                 continue
             kept.append(e)
         print(f"[{lang}] dropped {dropped.get('unknown', 0)} unknown short forms",
               file=sys.stderr, flush=True)
-        tagged = kept
+        nouns = noun_lemmas(kept)
+        tagged = [with_lemma_reading(e, nouns) for e in kept]
     entries = [(f, q) for f, q, _, _ in tagged]
     for form, freq, readings, _ in tagged:
 
@@ -599,7 +676,7 @@ def build(lang, outdir):
     header += ["#   - " + s.format(**fmt) for s in FILTER_SUMMARY]
     if lang == "de":
         header.append(f"#   - forms of at most {UNKNOWN_MAX_LEN} letters that HanTa does not know (best score below "
-                      f"{UNKNOWN_SCORE:g} on both spellings) and that are no listed form's lemma dropped "
+                      f"{UNKNOWN_SCORE:g} on both spellings) and that are not the lemma of a known form dropped "
                       f"({dropped.get('unknown', 0)} forms)")
     header.append(f"# entries: {len(entries)} (from {raw} in the wordfreq list)"
                   + (f"; {second} further reading lines" if second else ""))
@@ -618,6 +695,9 @@ def main():
     ap = argparse.ArgumentParser(description=__doc__.split("\n\n")[0])
     ap.add_argument("--lang", nargs="+", choices=list(LANGS), default=list(LANGS))
     ap.add_argument("--out", default=os.path.join(os.path.dirname(here), "lexicons"))
+    ap.add_argument("--tag-cache", metavar="PATH",
+                    help="keep HanTa's readings in PATH.LANG (JSON) and reuse them on the "
+                         "next run; the output is the same with or without it")
     args = ap.parse_args()
 
     v = metadata.version("wordfreq")
@@ -635,7 +715,7 @@ def main():
 
     os.makedirs(args.out, exist_ok=True)
     for lang in args.lang:
-        build(lang, args.out)
+        build(lang, args.out, args.tag_cache)
 
 
 if __name__ == "__main__":
