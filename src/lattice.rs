@@ -696,6 +696,12 @@ impl<'a> Builder<'a> {
             if !self.conditions_hold(&rule.left_conditions, list, key, source) {
                 continue;
             }
+            if !rules.settings.shadowed_linking
+                && part.carried.is_empty()
+                && self.shadowed(&self.chars[span.pos..span.q], inst, key)
+            {
+                continue;
+            }
             let pending_next = (!rule.right_conditions.is_empty()).then_some(inst.rule);
             let edge = WordEdge {
                 source,
@@ -710,6 +716,33 @@ impl<'a> Builder<'a> {
             self.join_to(part.node, q, inst_id, after, pending_next, Edge::Word(edge));
         }
         self.key = key_buf;
+    }
+
+    /// Whether the left word `key`, written `own` in the input and followed
+    /// by the junction `inst`, is shadowed: the junction adds letters before
+    /// its boundary and the word as written with them is a common noun of
+    /// its own (see [`crate::rules::SHADOWING_READING`]).
+    fn shadowed(&self, own: &[char], inst: &crate::rules::Instance, key: &str) -> bool {
+        if inst.separator != crate::rules::Separator::None || inst.surface_left.is_empty() {
+            return false;
+        }
+        let written: String = own
+            .iter()
+            .copied()
+            .chain(inst.surface_left.chars())
+            .collect();
+        if written.chars().count() <= key.chars().count() {
+            return false;
+        }
+        let Some(id) = self.lexicon.get(&written) else {
+            return false;
+        };
+        self.lexicon.entry(id).readings.iter().any(|r| {
+            r.get("pos")
+                .is_some_and(|p| p.split('|').any(|v| v == "noun"))
+                && !r.contains_key("lemma")
+                && r.get("proper").map(String::as_str) != Some("yes")
+        })
     }
 
     fn join_to(

@@ -206,3 +206,35 @@ fn a_finite_verb_form_is_not_a_compound_member() {
     let (t, _) = lemma_token("Sprachkurs", &TermsOptions::default());
     assert_eq!(t, ["Sprachkurs", "Sprache", "Kurs"]);
 }
+
+/// `set shadowed-linking = off` in the German rule-set: a linking element is
+/// not read where the first part written with it is a word of its own
+/// (invented frequencies; Ei is the more frequent word here).
+const SHADOW_LEXICON: &str = "\
+Ei\t40000\tpos=noun
+Eis\t15000\tpos=noun
+Berg\t30000\tpos=noun
+Kind\t60000\tpos=noun
+Kinder\t5000\tpos=noun;lemma=Kind
+Buch\t40000\tpos=noun
+";
+
+fn best_forms(word: &str) -> Vec<String> {
+    let rules = rules();
+    let mut b = LexiconBuilder::new(&rules.normalizer);
+    b.add_tsv("shadow.tsv", SHADOW_LEXICON.as_bytes()).unwrap();
+    let lexicon = b.build().unwrap();
+    let analyzer = Analyzer::new(&rules, &lexicon);
+    let record = analyzer.split_token(word, 5, 80);
+    let best = &record.record.analyses[0];
+    best.parts.iter().map(|p| p.form.clone()).collect()
+}
+
+#[test]
+fn a_linking_element_is_not_read_where_a_word_of_its_own_is_written() {
+    assert!(!rules().settings.shadowed_linking);
+    // Eis is a noun of its own: not Ei + s + Berg.
+    assert_eq!(best_forms("Eisberg"), ["Eis", "Berg"]);
+    // Kinder is a form of Kind (its lemma): Kind + er + Buch stands.
+    assert_eq!(best_forms("Kinderbuch"), ["Kind", "Buch"]);
+}

@@ -478,6 +478,7 @@ const SETTINGS: &[&str] = &[
     "pattern-frequency",
     "lexicon",
     "script",
+    "shadowed-linking",
 ];
 
 fn apply_setting(cx: &mut Context, settings: &mut Settings, s: &SetDecl) {
@@ -550,6 +551,17 @@ fn apply_setting(cx: &mut Context, settings: &mut Settings, s: &SetDecl) {
                 settings.pattern_frequency = n.max(0.0);
             }
         }
+        "shadowed-linking" => match word(cx).as_deref() {
+            Some("on") => settings.shadowed_linking = true,
+            Some("off") => settings.shadowed_linking = false,
+            Some(other) => cx.error(
+                "setting-value",
+                format!("`shadowed-linking` is `on` or `off`, not `{other}`"),
+                s.value.span,
+                Some("`off` drops linking readings that a word of its own spells (Ei + s in Eisberg)".into()),
+            ),
+            None => {}
+        },
         "lexicon" => settings.lexicon = word(cx),
         "script" => settings.script = word(cx),
         _ => cx.error(

@@ -240,7 +240,18 @@ pub struct Settings {
     pub lexicon: Option<String>,
     /// `script`: the transliteration scheme the rules are written in (e.g. `iast`).
     pub script: Option<String>,
+    /// `shadowed-linking`: `off` drops a junction that adds letters to the
+    /// end of the left word when the left word as written with them is a
+    /// common noun of its own in its citation form (see [`SHADOWING_READING`]).
+    pub shadowed_linking: bool,
 }
+
+/// What shadows a linking reading under `set shadowed-linking = off`: the
+/// left word as written (with the letters the junction adds before the
+/// boundary) has a lexicon reading with `pos=noun`, no `lemma` tag and no
+/// `proper=yes`. `Eis` shadows `Ei + s` in Eisberg, `Musiker` shadows
+/// `Musik + er`; `Kinder` (lemma Kind) does not shadow `Kind + er`.
+pub const SHADOWING_READING: &str = "pos=noun, no lemma, not proper=yes";
 
 impl Default for Settings {
     fn default() -> Self {
@@ -253,6 +264,7 @@ impl Default for Settings {
             pattern_frequency: 1.0,
             lexicon: None,
             script: None,
+            shadowed_linking: true,
         }
     }
 }
