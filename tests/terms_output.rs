@@ -171,13 +171,17 @@ Sprache\t90000\tpos=noun
 Kurs\t30000\tpos=noun
 ";
 
-fn lemma_token(word: &str, o: &TermsOptions) -> (Vec<String>, TokenRecord) {
+/// The German rule-set's record of `word` with only the lexicon `tsv`.
+fn record_with(tsv: &str, word: &str) -> TokenRecord {
     let rules = rules();
     let mut b = LexiconBuilder::new(&rules.normalizer);
-    b.add_tsv("lemmas.tsv", LEMMA_LEXICON.as_bytes()).unwrap();
+    b.add_tsv("test.tsv", tsv.as_bytes()).unwrap();
     let lexicon = b.build().unwrap();
-    let analyzer = Analyzer::new(&rules, &lexicon);
-    let record = analyzer.split_token(word, 5, 80);
+    Analyzer::new(&rules, &lexicon).split_token(word, 5, 80)
+}
+
+fn lemma_token(word: &str, o: &TermsOptions) -> (Vec<String>, TokenRecord) {
+    let record = record_with(LEMMA_LEXICON, word);
     (terms(&record, o), record)
 }
 
@@ -220,12 +224,7 @@ Buch\t40000\tpos=noun
 ";
 
 fn best_forms(word: &str) -> Vec<String> {
-    let rules = rules();
-    let mut b = LexiconBuilder::new(&rules.normalizer);
-    b.add_tsv("shadow.tsv", SHADOW_LEXICON.as_bytes()).unwrap();
-    let lexicon = b.build().unwrap();
-    let analyzer = Analyzer::new(&rules, &lexicon);
-    let record = analyzer.split_token(word, 5, 80);
+    let record = record_with(SHADOW_LEXICON, word);
     let best = &record.record.analyses[0];
     best.parts.iter().map(|p| p.form.clone()).collect()
 }
