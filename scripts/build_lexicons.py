@@ -19,6 +19,7 @@ Format (UTF-8, NFC, one entry a line, `#` lines are comments):
   left out when a form has no tags.  Keys written by this script:
     pos=noun|verb|adj|adv|other   (German and Dutch only, from HanTa)
     proper=yes                    (HanTa's best reading is a proper noun)
+    lemma=FORM, inflected=yes     (German only, see below)
   German nouns (pos=noun) are written capitalised (`Arbeit`), everything else
   in lower case; the engine case-folds on lookup.
 
@@ -63,10 +64,22 @@ that ignores tags):
  8. MAX_ENTRIES: keep at most this many forms (highest frequency first) so
     that each file stays under ~15 MB.
 
-Tagging (German and Dutch, HanTa's tag_word on the lower-case form with
-casesensitive=False, since wordfreq has folded case):
-  * the candidate readings are grouped into noun/verb/adj/adv/other, their
-    probabilities summed per group, and the best group wins;
+Tagging (German and Dutch, HanTa):
+  * Dutch: tag_word on the lower-case form with casesensitive=False; the
+    candidate readings are grouped into noun/verb/adj/adv/other, their
+    probabilities summed per group, and the best group wins.
+  * German: a case-folded form stands for a noun and possibly another word
+    (Abend / abend), so tag_word is asked about both spellings with case
+    (casesensitive=True): noun readings from the capitalised spelling, the
+    others from the lower-case one.  The best group wins; a second reading
+    across the noun / non-noun divide is kept within SECOND_MARGIN (not for
+    function words) and written as a line without a frequency.  Each
+    reading gets HanTa's lemma (analyze) where it differs from the form,
+    and finite verbs / inflected adjectives get inflected=yes.  A noun is a
+    proper noun only when its NE reading beats NN by PROPER_MARGIN.  Forms
+    HanTa does not know (UNKNOWN_SCORE) keep no lemma, and short ones are
+    dropped unless they are the lemma of a known form; a lemma of a noun
+    form gets a noun reading.  --tag-cache keeps HanTa's answers for reruns.
   * verb preference: if the form ends in -n (the shape of an infinitive) and
     the verb group is at least exp(-VERB_MARGIN) (= 1/7.4) as probable as the
     winner, pos=verb.  Nominalised infinitives (das Schreiben, het lopen) are
