@@ -1,7 +1,7 @@
 //! The pipeline put together: normalize → lattice → count → rank → proof →
 //! verify, for one input at a time. This is what the CLI's `split` calls.
 
-use crate::lattice::{self, Edge, LatticeOptions, Truncation};
+use crate::lattice::{self, ConditionMemo, Edge, LatticeOptions, Truncation};
 use crate::lexicon::Lexicon;
 use crate::proof::{self, Analysis};
 use crate::rules::RuleSet;
@@ -10,6 +10,7 @@ use num_bigint::BigUint;
 use num_traits::ToPrimitive;
 use petgraph::visit::EdgeRef;
 use serde::{Serialize, Serializer};
+use std::sync::Arc;
 use std::time::{Duration, Instant};
 
 /// An exact count, serialized as a JSON number when it fits in 64 bits and
@@ -83,6 +84,8 @@ pub struct Analyzer<'a> {
     pub search: SearchOptions,
     /// Time limit per input.
     pub timeout: Option<Duration>,
+    /// Condition results shared by the lattices of all inputs.
+    memo: Arc<ConditionMemo>,
 }
 
 impl<'a> Analyzer<'a> {
@@ -94,6 +97,7 @@ impl<'a> Analyzer<'a> {
             lattice: LatticeOptions::default(),
             search: SearchOptions::from_rules(rules),
             timeout: None,
+            memo: Arc::new(ConditionMemo::new(rules, lexicon)),
         }
     }
 
@@ -103,7 +107,7 @@ impl<'a> Analyzer<'a> {
         if let Some(t) = self.timeout {
             options.deadline = Some(Instant::now() + t);
         }
-        lattice::build(self.rules, self.lexicon, input, &options)
+        lattice::build_with(self.rules, self.lexicon, input, &options, &self.memo)
     }
 
     /// Analyses one input: exact count and the `top` best analyses, each verified.
@@ -206,9 +210,10 @@ impl<'a> Analyzer<'a> {
         cut: Option<Truncation>,
     ) -> SplitRecord {
         let mut analyses = Vec::with_capacity(paths.len());
+        let normalized = lattice.text.normalized();
         for (i, p) in paths.iter().enumerate() {
             let a = proof::analysis(lattice, self.rules, self.lexicon, p, i + 1);
-            match proof::verify(self.rules, &a, input) {
+            match proof::verify_normalized(self.rules, &a, &normalized) {
                 Ok(()) => analyses.push(a),
                 Err(e) => debug_assert!(false, "analysis of {input:?} failed verification: {e}"),
             }

@@ -306,13 +306,129 @@ struct Builder<'a> {
     stack: Vec<(u32, State<'a>)>,
     /// Whether a condition list (by its number) holds for an entry (or, when
     /// the list tests only tags, for every entry with the same readings).
-    memo: std::cell::RefCell<IntMap<(u32, bool, usize), bool>>,
+    memo: &'a ConditionMemo,
     /// Scratch text of the word being tested.
     key: String,
 }
 
+/// Whether the condition lists of a rule-set hold for the entries of a
+/// lexicon, remembered across lattices (an [`Analyzer`](crate::analyzer::Analyzer)
+/// keeps one for all its inputs). A list that tests only tags is remembered
+/// per set of readings of a compiled lexicon, any other per entry: two bits
+/// each (not known yet, false, true), in a table allocated when the list is
+/// first tested. Threads share it without locks: the answer for one slot is
+/// always the same, whoever stores it.
+pub struct ConditionMemo {
+    /// Addresses of the rule-set and lexicon it was made for.
+    rules: usize,
+    lexicon: usize,
+    /// Number of sets of readings (compiled lexicon), or `None`.
+    sets: Option<usize>,
+    entries: usize,
+    /// Per list: whether it is remembered per set of readings.
+    by_sets: Vec<bool>,
+    lists: Vec<std::sync::OnceLock<Box<[std::sync::atomic::AtomicU64]>>>,
+}
+
+impl std::fmt::Debug for ConditionMemo {
+    fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+        let used = self.lists.iter().filter(|l| l.get().is_some()).count();
+        write!(
+            f,
+            "ConditionMemo({} lists, {used} in use)",
+            self.lists.len()
+        )
+    }
+}
+
+impl ConditionMemo {
+    /// An empty memo for this rule-set and lexicon.
+    pub fn new(rules: &RuleSet, lexicon: &Lexicon) -> ConditionMemo {
+        let sets = lexicon.reading_set_count();
+        let by_sets: Vec<bool> = rules
+            .condition_ids
+            .uses_form
+            .iter()
+            .map(|&form| !form && sets.is_some())
+            .collect();
+        ConditionMemo {
+            rules: rules as *const RuleSet as usize,
+            lexicon: lexicon as *const Lexicon as usize,
+            sets,
+            entries: lexicon.len(),
+            lists: by_sets.iter().map(|_| std::sync::OnceLock::new()).collect(),
+            by_sets,
+        }
+    }
+
+    /// Whether it was made for this rule-set and lexicon.
+    pub fn is_for(&self, rules: &RuleSet, lexicon: &Lexicon) -> bool {
+        self.rules == rules as *const RuleSet as usize
+            && self.lexicon == lexicon as *const Lexicon as usize
+    }
+
+    /// The slot of entry `id` in list `list`'s table, if it has one.
+    fn slot(
+        &self,
+        lexicon: &Lexicon,
+        list: u32,
+        id: usize,
+    ) -> Option<(&std::sync::atomic::AtomicU64, u32)> {
+        let list = list as usize;
+        let by_sets = *self.by_sets.get(list)?;
+        let (index, len) = if by_sets {
+            (lexicon.reading_set(id)?, self.sets?)
+        } else {
+            (id, self.entries)
+        };
+        if index >= len {
+            return None;
+        }
+        let table = self.lists[list].get_or_init(|| {
+            (0..len.div_ceil(32))
+                .map(|_| std::sync::atomic::AtomicU64::new(0))
+                .collect()
+        });
+        Some((&table[index / 32], (index % 32) as u32 * 2))
+    }
+
+    fn get(&self, lexicon: &Lexicon, list: u32, id: usize) -> Option<bool> {
+        let (word, shift) = self.slot(lexicon, list, id)?;
+        let bits = word.load(std::sync::atomic::Ordering::Relaxed) >> shift;
+        (bits & 1 == 1).then_some(bits & 2 == 2)
+    }
+
+    fn set(&self, lexicon: &Lexicon, list: u32, id: usize, holds: bool) {
+        if let Some((word, shift)) = self.slot(lexicon, list, id) {
+            let bits = (1 | u64::from(holds) << 1) << shift;
+            word.fetch_or(bits, std::sync::atomic::Ordering::Relaxed);
+        }
+    }
+}
+
 /// Builds the lattice of `input`.
 pub fn build(rules: &RuleSet, lexicon: &Lexicon, input: &str, options: &LatticeOptions) -> Lattice {
+    build_with(
+        rules,
+        lexicon,
+        input,
+        options,
+        &ConditionMemo::new(rules, lexicon),
+    )
+}
+
+/// Builds the lattice of `input`, with the condition results remembered in
+/// `memo` (used only if it was made for this rule-set and lexicon).
+pub fn build_with(
+    rules: &RuleSet,
+    lexicon: &Lexicon,
+    input: &str,
+    options: &LatticeOptions,
+    memo: &ConditionMemo,
+) -> Lattice {
+    if !memo.is_for(rules, lexicon) {
+        return build(rules, lexicon, input, options);
+    }
     let text = rules.normalizer.map(input);
     let chars = text.chars.clone();
     let n = chars.len();
@@ -363,7 +479,7 @@ pub fn build(rules: &RuleSet, lexicon: &Lexicon, input: &str, options: &LatticeO
             .unwrap_or(rules.settings.min_part_length),
         truncated: None,
         stack: Vec::new(),
-        memo: Default::default(),
+        memo,
         key: String::new(),
     };
     b.parts.insert((0, 0, None), start);
@@ -501,16 +617,11 @@ impl<'a> Builder<'a> {
         let PartSource::Entry(id) = source else {
             return evaluate();
         };
-        let by_readings = !self.rules.condition_ids.uses_form[list as usize];
-        let memo_key = match self.lexicon.reading_set(id) {
-            Some(set) if by_readings => (list, true, set),
-            _ => (list, false, id),
-        };
-        if let Some(&known) = self.memo.borrow().get(&memo_key) {
+        if let Some(known) = self.memo.get(self.lexicon, list, id) {
             return known;
         }
         let holds = evaluate();
-        self.memo.borrow_mut().insert(memo_key, holds);
+        self.memo.set(self.lexicon, list, id, holds);
         holds
     }
 

@@ -85,7 +85,11 @@ impl Normalizer {
     /// Normalizes a text and keeps the map from normalized to original characters.
     /// Offsets of the original are counted in the NFC form of the input.
     pub fn map(&self, text: &str) -> MappedText {
-        let original: Vec<char> = text.nfc().collect();
+        let original: Vec<char> = if is_nfc(text.chars()) {
+            text.chars().collect()
+        } else {
+            text.nfc().collect()
+        };
         let mut chars = Vec::with_capacity(original.len());
         let mut origin = Vec::with_capacity(original.len());
         for (i, &c) in original.iter().enumerate() {
@@ -101,7 +105,10 @@ impl Normalizer {
             }
             origin.extend(std::iter::repeat(i).take(chars.len() - before));
         }
-        if self.form == NormalForm::Nfc && (self.fold_case || !self.folds.is_empty()) {
+        if self.form == NormalForm::Nfc
+            && (self.fold_case || !self.folds.is_empty())
+            && !is_nfc(chars.iter().copied())
+        {
             // Folding can leave a decomposed sequence; recompose, keeping the map
             // when the length does not change (the common case).
             let s: String = chars.iter().collect();
@@ -119,6 +126,13 @@ impl Normalizer {
             origin,
         }
     }
+}
+
+/// Whether a text is certainly in NFC already (then composing it changes
+/// nothing): ASCII, or passing Unicode's quick check.
+fn is_nfc<I: Iterator<Item = char> + Clone>(chars: I) -> bool {
+    chars.clone().all(|c| c.is_ascii())
+        || unicode_normalization::is_nfc_quick(chars) == unicode_normalization::IsNormalized::Yes
 }
 
 fn recompose_origin(chars: &[char], origin: &[usize]) -> Vec<usize> {

@@ -124,6 +124,11 @@ impl LazyEntries {
         self.record(id).1 >> 2
     }
 
+    /// How many sets of readings the file has.
+    pub(super) fn reading_set_count(&self) -> usize {
+        self.reading_sets.len()
+    }
+
     pub(super) fn get(&self, id: usize) -> &Entry {
         self.cache[id].get_or_init(|| {
             let (frequency, meta) = self.record(id);

@@ -504,6 +504,16 @@ impl Lexicon {
         }
     }
 
+    /// For a compiled lexicon, how many sets of readings it has (the numbers
+    /// [`reading_set`](Self::reading_set) gives are below it in a sound file);
+    /// `None` for other lexicons.
+    pub fn reading_set_count(&self) -> Option<usize> {
+        match &self.store {
+            Store::Owned(_) => None,
+            Store::Lazy(l) => Some(l.reading_set_count()),
+        }
+    }
+
     /// Looks up a normalized key.
     pub fn get(&self, key: &str) -> Option<usize> {
         self.index.get(key.as_bytes()).map(|v| v as usize)
