@@ -86,8 +86,18 @@ Tagging (German and Dutch, HanTa):
     thereby verbs, so the rule-set can use the verb stem (Schreibtisch);
   * German only: wordfreq spells ß as `ss` (it case-folds); HanTa knows ß
     spellings better, so forms with `ss` are also tagged with `ss`->`ß`
-    variants and the best-scored variant's reading is used.  The form column
-    keeps wordfreq's `ss` spelling.
+    variants and the best-scored variant's reading is used.
+  * German only, ß restored: each `ss` of a form (and of its lemma) is
+    written `ß` where the spelling dictionary of the current orthography
+    (igerman98 as packaged by Debian in hunspell-de-de, /usr/share/hunspell/
+    de_DE.dic, every form of it listed by hunspell-tools' unmunch) says so:
+    the longest dictionary form (or verb stem, the infinitive without
+    -en/-n) that covers that place of the form decides
+    (Fuß in Fußball, Straße, groß, schließlich; but Schloss, Genuss, dass,
+    musste).  Where no dictionary word covers it, or a word with ß and one
+    with ss cover it equally (Masse / Maße), `ss` stays.  HanTa cannot decide
+    this: its model spells the older way (daß, Schloß).  Only the choice
+    between ß and ss is taken from the dictionary, none of its words.
 Swedish, Danish and Norwegian have no tags: no package on PyPI ships a POS
 model for them that runs offline (spaCy/stanza/UDPipe models are downloaded
 at run time; simplemma gives lemmas only).
@@ -332,15 +342,130 @@ INFLECTED_TAGS = ("VVFIN", "VAFIN", "VMFIN", "ADJA")
 # Unknown short forms.  HanTa scores the words of its lexicon above about -20
 # (log-probability) and guesses unknown strings far lower (-26 and below).
 # A form of at most UNKNOWN_MAX_LEN letters that scores below UNKNOWN_SCORE
-# on both spellings, and is not the lemma of a form HanTa knows, is a
-# fragment of hyphenation, a foreign token or a typo (cke, ssel, ucht, esben,
-# jau), and is dropped.  Huhn stays: it is the lemma of Hühner.
+# on both spellings, is not the lemma of a form HanTa knows and is not a
+# form of the spelling dictionary (see SharpS) is a fragment of hyphenation,
+# a foreign token or a typo (cke, ssel, ucht, esben, jau), and is dropped.
+# Huhn stays: it is the lemma of Hühner; Teig and Senf stay: HanTa does not
+# know them, the spelling dictionary does.
 UNKNOWN_SCORE = -25.0
 UNKNOWN_MAX_LEN = 5
 
 
 def fold_ss(word):
     return word.replace("ß", "ss")
+
+
+SPELLING_DIC = "/usr/share/hunspell/de_DE.dic"
+SPELLING_AFF = "/usr/share/hunspell/de_DE.aff"
+SPELLING_PACKAGE = "hunspell-de-de"
+SPELLING_TOOLS_PACKAGE = "hunspell-tools"
+
+
+class SharpS:
+    """Puts ß back where wordfreq's case folding wrote ss, following a
+    spelling dictionary of the current orthography (see the module text)."""
+
+    MIN_COVER = 3  # a dictionary word shorter than this decides nothing
+    MIN_STEM = 4  # shortest verb stem taken from an infinitive
+    MAX_WORD = 40
+
+    def __init__(self, dic, aff):
+        import subprocess
+        # Every form the dictionary spells (its words with their affixes
+        # applied, by hunspell-tools' unmunch), so that inflected forms
+        # (Pässe, Füße, hießen) decide for themselves.
+        try:
+            forms = subprocess.run(["unmunch", dic, aff], capture_output=True, check=True,
+                                   text=True, errors="replace").stdout.split("\n")
+        except (OSError, subprocess.CalledProcessError) as e:
+            sys.exit(f"unmunch failed ({e}): apt-get install {SPELLING_TOOLS_PACKAGE}")
+        # A word listed without affix flags is mostly a name (Strauss beside
+        # Strauß); it loses a tie to an inflecting word.
+        bare = set()
+        with open(dic, encoding="utf-8", errors="replace") as f:
+            for line in f:
+                raw = line.strip()
+                if raw and "/" not in raw:
+                    bare.add(unicodedata.normalize("NFC", raw))
+        # folded spelling -> {(spelling, inflects)}
+        self.words = {}
+        # every form, lower case, ß folded (as wordfreq writes it)
+        self.known = set()
+        for raw in forms:
+            word = unicodedata.normalize("NFC", raw.strip())
+            if not word.isalpha():
+                continue
+            self.known.add(fold_ss(word.lower()))
+            inflects = word not in bare
+            lower = word.lower()
+            spellings = {lower}
+            if word == lower:
+                # a verb's stem as a first part or before -te (grüß-te); at
+                # least MIN_STEM letters, so that an adverb in -en gives no
+                # stem (außen: no auß- in Nikolausstraße)
+                for suffix in ("en", "ern", "eln", "n"):
+                    if lower.endswith(suffix) and len(lower) - len(suffix) >= self.MIN_STEM:
+                        spellings.add(lower[:-len(suffix)])
+            for w in spellings:
+                if "ß" in w or "ss" in w:
+                    self.words.setdefault(fold_ss(w), set()).add((w, inflects))
+        self.memo = {}
+
+    @staticmethod
+    def _kind_at(spelling, start, i):
+        """'ß' or 'ss' if `spelling`, laid over the folded form from `start`,
+        has that at folded position `i`; else None."""
+        j = start
+        k = 0
+        while k < len(spelling):
+            if j == i:
+                if spelling[k] == "ß":
+                    return "ß"
+                if spelling.startswith("ss", k):
+                    return "ss"
+                return None
+            j += 2 if spelling[k] == "ß" else 1
+            k += 1
+        return None
+
+    def _decide(self, form, i):
+        """True if the ss at folded position i is written ß."""
+        best = None  # (covered length, has flags, is ß)
+        n = len(form)
+        for a in range(max(0, i - self.MAX_WORD), i + 1):
+            for b in range(max(i + 2, a + self.MIN_COVER), min(n, a + self.MAX_WORD) + 1):
+                for spelling, inflects in self.words.get(form[a:b], ()):
+                    kind = self._kind_at(spelling, a, i)
+                    if kind is None:
+                        continue
+                    cand = (b - a, inflects, kind == "ß")
+                    # longer cover wins, then an inflecting word over
+                    # an unflagged one (a name); a tie keeps ss
+                    if best is None or cand[:2] > best[:2] or (cand[:2] == best[:2] and not cand[2]):
+                        best = cand
+        return bool(best and best[2])
+
+    def respell(self, word):
+        """`word` with ß where the dictionary writes it; the case is kept."""
+        if "ss" not in word.lower():
+            return word
+        if word in self.memo:
+            return self.memo[word]
+        form = word.lower()
+        out = []
+        k = 0
+        while k < len(form):
+            if form.startswith("ss", k) and self._decide(form, k):
+                out.append("ß")
+                k += 2
+            else:
+                out.append(form[k])
+                k += 1
+        res = "".join(out)
+        if word[:1].isupper():
+            res = res[:1].upper() + res[1:]
+        self.memo[word] = res
+        return res
 
 
 class GermanTagger:
@@ -435,6 +560,20 @@ class GermanTagger:
         return out
 
 
+# Short forms that HanTa reads only as a verb with a lemma that the
+# spelling dictionary does not know are fragments it has made a participle
+# of (ren -> lemma "ger", len -> "geln"): a real short verb form has a real
+# lemma (geh -> gehen, tu -> tun).  Such forms are dropped.
+STRAY_VERB_MAX_LEN = 4
+
+
+def stray_verb(readings, known):
+    """Every reading is a verb whose lemma is not a known word."""
+    return bool(readings) and all(
+        r["pos"] == "verb" and r.get("lemma") and fold_ss(r["lemma"].lower()) not in known
+        for r in readings)
+
+
 def is_unknown(score):
     """HanTa does not know the form: its best reading scores below UNKNOWN_SCORE."""
     return score is not None and score < UNKNOWN_SCORE
@@ -490,7 +629,30 @@ def reading_tags(r):
         tags.append(f"lemma={r['lemma']}")
     if r.get("inflected"):
         tags.append("inflected=yes")
+    if r.get("lexicalised"):
+        tags.append("lexicalised=yes")
     return tags
+
+
+LEXICALISED_FILE = "german-lexicalised.txt"
+
+
+def load_lexicalised(outdir):
+    """Case-folded forms of lexicons/german-lexicalised.txt (a hand list, see
+    its header), ß folded to ss as in the word list; empty without a file."""
+    if outdir is None:
+        return set()
+    here = os.path.dirname(os.path.abspath(__file__))
+    path = os.path.join(os.path.dirname(here), "lexicons", LEXICALISED_FILE)
+    if not os.path.exists(path):
+        return set()
+    out = set()
+    with open(path, encoding="utf-8") as f:
+        for line in f:
+            word = line.split("#", 1)[0].strip()
+            if word:
+                out.add(fold_ss(unicodedata.normalize("NFC", word).lower()))
+    return out
 
 
 # --- filtering ---------------------------------------------------------------
@@ -516,6 +678,16 @@ def triple_splits(form, known):
                         and right2 in known)):
                 return False
     return True
+
+
+def spelling_version():
+    import subprocess
+    try:
+        out = subprocess.run(["dpkg-query", "-W", "-f=${Version}", SPELLING_PACKAGE],
+                             capture_output=True, text=True, check=True).stdout.strip()
+    except (OSError, subprocess.CalledProcessError):
+        out = ""
+    return out or "(version unknown)"
 
 
 def wordlist_for(lang):
@@ -598,6 +770,7 @@ def build(lang, outdir, tag_cache=None):
           f"dropped={dropped} ({time.time() - t0:.0f}s)", file=sys.stderr, flush=True)
 
     tagger = None
+    sharp_s = None
     pos_counts = {}
     if cfg["tagger"]:
         tagger = GermanTagger(cfg["tagger"]) if lang == "de" else Tagger(lang, cfg["tagger"])
@@ -623,21 +796,51 @@ def build(lang, outdir, tag_cache=None):
                   for f, q, rs, sc in tagged]
         lemmas = {r["lemma"].lower() for _, _, rs, _ in tagged for r in rs if r.get("lemma")}
         kept = []
+        sharp_s = SharpS(SPELLING_DIC, SPELLING_AFF)
         for e in tagged:
-            form, _, _, score = e
-            if len(form) <= UNKNOWN_MAX_LEN and is_unknown(score) and form not in lemmas:
+            form, _, readings, score = e
+            if (len(form) <= UNKNOWN_MAX_LEN and is_unknown(score) and form not in lemmas
+                    and form not in sharp_s.known):
                 dropped["unknown"] = dropped.get("unknown", 0) + 1
                 continue
+            if (len(form) <= STRAY_VERB_MAX_LEN and stray_verb(readings, sharp_s.known)
+                    and form not in lemmas):
+                dropped["stray verb"] = dropped.get("stray verb", 0) + 1
+                continue
             kept.append(e)
+        print(f"[{lang}] dropped {dropped.get('stray verb', 0)} short forms read only as a verb "
+              "whose lemma the spelling dictionary does not list", file=sys.stderr, flush=True)
         print(f"[{lang}] dropped {dropped.get('unknown', 0)} unknown short forms",
               file=sys.stderr, flush=True)
         nouns = noun_lemmas(kept)
         tagged = [with_lemma_reading(e, nouns) for e in kept]
+    lexicalised = load_lexicalised(outdir if lang == "de" else None)
+    if lexicalised:
+        known_forms = {f for f, _, _, _ in tagged}
+        missing = sorted(w for w in lexicalised if w not in known_forms)
+        if missing:
+            print(f"[{lang}] not in the word list, so not tagged lexicalised: {', '.join(missing)}",
+                  file=sys.stderr, flush=True)
+        # the listed form's readings, and readings of its inflected forms
+        # (Bäckereien, lemma Bäckerei)
+        def mark(form, r):
+            lemma = fold_ss(r["lemma"].lower()) if r.get("lemma") else None
+            return dict(r, lexicalised=True) if form in lexicalised or lemma in lexicalised else r
+        tagged = [(f, q, [mark(f, r) for r in rs], sc) for f, q, rs, sc in tagged]
     entries = [(f, q) for f, q, _, _ in tagged]
+    if lang != "de":
+        sharp_s = None
+    respelled = 0
     for form, freq, readings, _ in tagged:
+        written = form
+        if sharp_s is not None:
+            written = sharp_s.respell(form)
+            respelled += written != form
+            readings = [dict(r, lemma=sharp_s.respell(r["lemma"])) if r.get("lemma") else r
+                        for r in readings]
 
         def shown(r):
-            return form[0].upper() + form[1:] if lang == "de" and r["pos"] == "noun" else form
+            return written[0].upper() + written[1:] if lang == "de" and r["pos"] == "noun" else written
 
         if readings:
             first = readings[0]
@@ -649,7 +852,9 @@ def build(lang, outdir, tag_cache=None):
                 lines.append(f"{shown(r)}\t" + ";".join(reading_tags(r)))
                 second += 1
         else:
-            lines.append(f"{form}\t{freq}")
+            lines.append(f"{written}\t{freq}")
+    if sharp_s is not None:
+        print(f"[{lang}] ß restored in {respelled} forms", file=sys.stderr, flush=True)
 
     abbr = sorted(ABBREVIATIONS[lang])
     frag = sorted(FRAGMENTS[lang])
@@ -681,7 +886,9 @@ def build(lang, outdir, tag_cache=None):
                 "#   German: lemma=FORM (HanTa's lemma, where it differs from the form) and inflected=yes",
                 "#   (a finite verb or inflected adjective form); a line without a frequency is a further",
                 "#   reading of the form above it (noun and non-noun readings of one case-folded form)",
-                "#   German nouns are written capitalised; wordfreq folds ß to ss (strasse)",
+                "#   German nouns are written capitalised; wordfreq folds ß to ss (strasse); ß is written",
+                f"#   back where the spelling dictionary {SPELLING_PACKAGE} {spelling_version()} ({SPELLING_DIC},",
+                f"#   GPL-2+; only its choice between ß and ss is used) says so: {respelled} forms",
             ]
     else:
         header.append("# tags: none (no offline part-of-speech model for this language on PyPI)")
@@ -689,12 +896,18 @@ def build(lang, outdir, tag_cache=None):
     header += ["#   - " + s.format(**fmt) for s in FILTER_SUMMARY]
     if lang == "de":
         header.append(f"#   - forms of at most {UNKNOWN_MAX_LEN} letters that HanTa does not know (best score below "
-                      f"{UNKNOWN_SCORE:g} on both spellings) and that are not the lemma of a known form dropped "
+                      f"{UNKNOWN_SCORE:g} on both spellings), that are not the lemma of a known form and that "
+                      f"the spelling dictionary {SPELLING_PACKAGE} does not list dropped "
                       f"({dropped.get('unknown', 0)} forms)")
+        header.append(f"#   - forms of at most {STRAY_VERB_MAX_LEN} letters read only as a verb whose lemma the "
+                      f"spelling dictionary does not list (ren: lemma ger) dropped ({dropped.get('stray verb', 0)} forms)")
+        header.append(f"#   - lexicalised=yes on every reading of the forms in lexicons/{LEXICALISED_FILE} "
+                      "(a hand list, from memory) and on readings whose lemma is one of them")
     header.append(f"# entries: {len(entries)} (from {raw} in the wordfreq list)"
                   + (f"; {second} further reading lines" if second else ""))
     header.append(f"# command: python3 scripts/build_lexicons.py --lang {lang}"
-                  "  (after: pip install wordfreq==3.1.1 HanTa==1.2.1 numpy)")
+                  "  (after: pip install wordfreq==3.1.1 HanTa==1.2.1 numpy"
+                  + (f"; apt-get install {SPELLING_PACKAGE} {SPELLING_TOOLS_PACKAGE}" if lang == "de" else "") + ")")
     out = os.path.join(outdir, cfg["file"])
     with open(out, "w", encoding="utf-8", newline="\n") as f:
         f.write("\n".join(header + lines) + "\n")
@@ -726,6 +939,9 @@ def main():
             print(f"warning: HanTa {HANTA_VERSION} expected, found {hv}; tags may differ",
                   file=sys.stderr)
 
+    if "de" in args.lang and not os.path.exists(SPELLING_DIC):
+        sys.exit(f"{SPELLING_DIC} is required for German ß spellings: "
+                 f"apt-get install {SPELLING_PACKAGE} {SPELLING_TOOLS_PACKAGE}")
     os.makedirs(args.out, exist_ok=True)
     for lang in args.lang:
         build(lang, args.out, args.tag_cache)

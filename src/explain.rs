@@ -164,6 +164,13 @@ pub struct PartTerm {
     pub frequency_term: f64,
     /// `−part-cost` (probability model; 0 otherwise).
     pub part_cost: f64,
+    /// `lexicalised-bonus` when the part is a lexicalised word (else 0, not written).
+    #[serde(skip_serializing_if = "is_zero")]
+    pub lexicalised_bonus: f64,
+}
+
+fn is_zero(x: &f64) -> bool {
+    *x == 0.0
 }
 
 /// A junction's share of the score.
@@ -567,12 +574,16 @@ pub fn breakdown(
                 Ranking::Frequency => (f.max(1.0).ln() / n, 0.0),
                 Ranking::Probability => (lexicon.log_probability(*f), -options.part_cost),
             };
-            total += term + cost;
+            let bonus = lexicon
+                .get(form)
+                .map_or(0.0, |id| search::lexicalised_bonus(lexicon, id, options));
+            total += term + cost + bonus;
             PartTerm {
                 form: form.clone(),
                 frequency: *f,
                 frequency_term: round(term),
                 part_cost: cost,
+                lexicalised_bonus: bonus,
             }
         })
         .collect();
@@ -1402,11 +1413,16 @@ fn breakdown_text(b: &Breakdown, out: &mut String) {
     for p in &b.parts {
         let _ = writeln!(
             out,
-            "       part {:<12} frequency {:<8} {:>9}  part-cost {:>5}",
+            "       part {:<12} frequency {:<8} {:>9}  part-cost {:>5}{}",
             p.form,
             p.frequency,
             signed(p.frequency_term),
-            signed(p.part_cost)
+            signed(p.part_cost),
+            if p.lexicalised_bonus == 0.0 {
+                String::new()
+            } else {
+                format!("  lexicalised {}", signed(p.lexicalised_bonus))
+            }
         );
     }
     for j in &b.junctions {

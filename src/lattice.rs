@@ -230,6 +230,37 @@ pub fn part_readings<'a>(
     }
 }
 
+/// Whether the left word `key`, written as the junction `inst` writes it
+/// (its left end replaced by the letters before the boundary), is a lexicon
+/// form of that word: the same form, or a form with a reading whose `lemma`
+/// normalizes to `key` (a rule's `attested` clause).
+pub fn attested(
+    rules: &RuleSet,
+    lexicon: &Lexicon,
+    key: &str,
+    inst: &crate::rules::Instance,
+) -> bool {
+    let Some(stem) = key.strip_suffix(inst.left.as_str()) else {
+        return false;
+    };
+    let mut written = String::with_capacity(stem.len() + inst.surface_left.len());
+    written.push_str(stem);
+    written.push_str(&inst.surface_left);
+    if written == key {
+        return true;
+    }
+    let Some(id) = lexicon.get(&written) else {
+        return false;
+    };
+    lexicon.entry(id).readings.iter().any(|r| {
+        r.get(crate::proof::LEMMA_TAG).is_some_and(|lemmas| {
+            lemmas
+                .split('|')
+                .any(|l| rules.normalizer.normalize(l) == key)
+        })
+    })
+}
+
 /// A fast hash for the small integer keys of the node maps (the standard
 /// SipHash guards against hash flooding, which integer keys made here cannot do).
 #[derive(Default, Clone, Copy)]
@@ -811,6 +842,9 @@ impl<'a> Builder<'a> {
                 && part.carried.is_empty()
                 && self.shadowed(&self.chars[span.pos..span.q], inst, key)
             {
+                continue;
+            }
+            if rule.attested && !attested(rules, self.lexicon, key, inst) {
                 continue;
             }
             let pending_next = (!rule.right_conditions.is_empty()).then_some(inst.rule);

@@ -16,9 +16,9 @@
 //! **probability** model scores `Σ ln p_i − Σ cost(r_j) − n · part-cost`, with
 //! `p_i` the add-one smoothed relative frequency of the part.
 
-use crate::lattice::{Edge, Lattice, Truncation};
+use crate::lattice::{Edge, Lattice, PartSource, Truncation};
 use crate::lexicon::Lexicon;
-use crate::rules::{Ranking, RuleSet};
+use crate::rules::{Ranking, RuleSet, LEXICALISED_TAG};
 use num_bigint::BigUint;
 use num_traits::{One, Zero};
 use petgraph::graph::{EdgeIndex, NodeIndex};
@@ -40,6 +40,8 @@ pub struct SearchOptions {
     pub split_cost: f64,
     /// Most partial paths the best-first search may pop.
     pub max_pops: usize,
+    /// Added for every part that is a lexicalised word (`lexicalised-bonus`).
+    pub lexicalised_bonus: f64,
 }
 
 impl SearchOptions {
@@ -51,6 +53,7 @@ impl SearchOptions {
             part_cost: rules.settings.part_cost,
             split_cost: rules.settings.split_cost,
             max_pops: 2_000_000,
+            lexicalised_bonus: rules.settings.lexicalised_bonus,
         }
     }
 }
@@ -216,17 +219,42 @@ struct Weights<'a> {
 impl Weights<'_> {
     fn of(&self, edge: &Edge) -> f64 {
         match edge {
-            Edge::Word(w) => match self.options.ranking {
-                Ranking::Frequency => w.frequency.max(1.0).ln() / self.divisor,
-                Ranking::Probability => {
-                    self.lexicon.log_probability(w.frequency) - self.options.part_cost
+            Edge::Word(w) => {
+                let term = match self.options.ranking {
+                    Ranking::Frequency => w.frequency.max(1.0).ln() / self.divisor,
+                    Ranking::Probability => {
+                        self.lexicon.log_probability(w.frequency) - self.options.part_cost
+                    }
+                };
+                match w.source {
+                    PartSource::Entry(id) if self.options.lexicalised_bonus != 0.0 => {
+                        term + lexicalised_bonus(self.lexicon, id, self.options)
+                    }
+                    _ => term,
                 }
-            },
+            }
             Edge::Junction { instance } => {
                 let rule = &self.rules.rules[self.rules.instances[*instance].rule];
                 -(rule.cost + self.options.split_cost)
             }
         }
+    }
+}
+
+/// The `lexicalised-bonus` an entry earns as a part: the bonus when one of
+/// its readings is tagged `lexicalised=yes`, else 0.
+pub fn lexicalised_bonus(lexicon: &Lexicon, id: usize, options: &SearchOptions) -> f64 {
+    if options.lexicalised_bonus == 0.0 {
+        return 0.0;
+    }
+    let lexicalised = lexicon.entry(id).readings.iter().any(|r| {
+        r.get(LEXICALISED_TAG)
+            .is_some_and(|v| v.split('|').any(|v| v == "yes"))
+    });
+    if lexicalised {
+        options.lexicalised_bonus
+    } else {
+        0.0
     }
 }
 

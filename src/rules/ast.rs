@@ -263,6 +263,9 @@ pub struct RuleDecl {
     pub examples: Vec<ExampleDecl>,
     /// `note ...` clauses.
     pub notes: Vec<String>,
+    /// `attested`: the left word as the junction writes it must be a
+    /// lexicon form of that word.
+    pub attested: Option<Span>,
     /// The whole statement.
     pub span: Span,
 }

@@ -479,6 +479,7 @@ const SETTINGS: &[&str] = &[
     "lexicon",
     "script",
     "shadowed-linking",
+    "lexicalised-bonus",
 ];
 
 fn apply_setting(cx: &mut Context, settings: &mut Settings, s: &SetDecl) {
@@ -544,6 +545,11 @@ fn apply_setting(cx: &mut Context, settings: &mut Settings, s: &SetDecl) {
         "split-cost" => {
             if let Some(n) = number(cx, false) {
                 settings.split_cost = n;
+            }
+        }
+        "lexicalised-bonus" => {
+            if let Some(n) = number(cx, false) {
+                settings.lexicalised_bonus = n;
             }
         }
         "pattern-frequency" => {
@@ -1232,6 +1238,7 @@ fn expand_rule(
         left_conditions,
         right_conditions,
         notes: rule.notes.clone(),
+        attested: rule.attested.is_some(),
         location: cx.sources.locate(rule.name.span),
         classes_used,
     };
@@ -1360,8 +1367,8 @@ fn check_duplicates(cx: &mut Context, expanded: &Expanded) {
         let mut key = per_rule[i].clone();
         key.sort();
         let cond_key = format!(
-            "{:?}{:?}{:?}",
-            rule.left_conditions, rule.right_conditions, rule.scope
+            "{:?}{:?}{:?}{}",
+            rule.left_conditions, rule.right_conditions, rule.scope, rule.attested
         );
         key.push((
             cond_key,

@@ -97,6 +97,12 @@ pub struct JunctionRule {
     pub right_conditions: Vec<Condition>,
     /// `note` clauses.
     pub notes: Vec<String>,
+    /// `attested`: when splitting, the left word as the junction writes it
+    /// (its left end replaced by the letters before the boundary) must be a
+    /// lexicon form of the left word: the form itself, or a form with a
+    /// reading whose `lemma` is the left word (`Kinder`, lemma `Kind`, for
+    /// `Kind + er`). Rules that write the word unchanged are not affected.
+    pub attested: bool,
     /// Where it is defined.
     pub location: Location,
     /// Classes the rule mentions.
@@ -244,7 +250,15 @@ pub struct Settings {
     /// end of the left word when the left word as written with them is a
     /// common noun of its own in its citation form (see [`SHADOWING_READING`]).
     pub shadowed_linking: bool,
+    /// `lexicalised-bonus`: added to the score of an analysis for every part
+    /// whose lexicon entry has a reading tagged [`LEXICALISED_TAG`]`=yes`
+    /// (a word whose meaning is not that of its parts: Hochzeit, Maulwurf).
+    pub lexicalised_bonus: f64,
 }
+
+/// The lexicon tag that marks a lexicalised word: written as a compound of
+/// other words, but not one in meaning (`lexicalised=yes`).
+pub const LEXICALISED_TAG: &str = "lexicalised";
 
 /// What shadows a linking reading under `set shadowed-linking = off`: the
 /// left word as written (with the letters the junction adds before the
@@ -265,6 +279,7 @@ impl Default for Settings {
             lexicon: None,
             script: None,
             shadowed_linking: true,
+            lexicalised_bonus: 0.0,
         }
     }
 }

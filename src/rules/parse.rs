@@ -184,9 +184,11 @@ fn rule_words(rule: Rule) -> Option<&'static str> {
         Rule::comparison => "`=` or `!=`",
         Rule::value => "a tag value",
         Rule::scope => "`compound`, `phrase` or `any`",
-        Rule::cost_clause | Rule::scope_clause | Rule::example_clause | Rule::note_clause => {
-            "a clause"
-        }
+        Rule::cost_clause
+        | Rule::scope_clause
+        | Rule::example_clause
+        | Rule::note_clause
+        | Rule::attested_clause => "a clause",
         Rule::example_parts | Rule::example_part => "the parts of the example",
         Rule::example_surface => "the surface form of the example",
         Rule::tag_pair => "a tag `KEY=VALUE`",
@@ -512,6 +514,7 @@ impl Builder {
             scope: None,
             examples: Vec::new(),
             notes: Vec::new(),
+            attested: None,
             span,
         };
         let clauses = inner.flat_map(|p| match p.as_rule() {
@@ -552,6 +555,7 @@ impl Builder {
                         rule.notes.push(self.text(t).value);
                     }
                 }
+                Rule::attested_clause => rule.attested = Some(cspan),
                 _ => {}
             }
         }

@@ -1,0 +1,191 @@
+//! German rule-set: lexicalised words kept whole (`set lexicalised-bonus`),
+//! linking elements tied to the first word's forms (`attested`), and ß
+//! spellings in the bundled lexicon. The small lexicons written here have
+//! invented frequencies that only set up the rankings the tests need.
+
+use juncture::analyzer::{Analyzer, TokenRecord};
+use juncture::lattice::ScopeFilter;
+use juncture::lexicon::{Lexicon, LexiconBuilder};
+use juncture::proof::join;
+use juncture::rules::{compile, compile_named, CompileOptions, RuleSet};
+
+fn compile_str(name: &str, text: &str) -> RuleSet {
+    compile(name, text, None, &CompileOptions::default()).expect("the test rule-set compiles")
+}
+
+fn german() -> RuleSet {
+    compile_named("german", &CompileOptions::default()).expect("the German rule-set compiles")
+}
+
+fn lexicon(rules: &RuleSet, tsv: &str) -> Lexicon {
+    let mut b = LexiconBuilder::new(&rules.normalizer);
+    b.add_tsv("test.tsv", tsv.as_bytes()).expect("test lexicon");
+    b.build().expect("test lexicon builds")
+}
+
+fn record(rules: &RuleSet, lexicon: &Lexicon, word: &str) -> TokenRecord {
+    Analyzer::new(rules, lexicon).split_token(word, 10, 80)
+}
+
+/// Lexicon forms of every analysis, best first.
+fn analyses(rules: &RuleSet, lexicon: &Lexicon, word: &str) -> Vec<Vec<String>> {
+    record(rules, lexicon, word)
+        .record
+        .analyses
+        .iter()
+        .map(|a| a.parts.iter().map(|p| p.form.clone()).collect())
+        .collect()
+}
+
+const LEXICALISED: &str = "\
+hoch\t190000\tpos=adj
+Zeit\t970000\tpos=noun
+Hochzeit\t30000\tpos=noun;lexicalised=yes
+Tag\t500000\tpos=noun
+Stück\t90000\tpos=noun
+früh\t80000\tpos=adj
+Frühstück\t20000\tpos=noun
+";
+
+#[test]
+fn a_lexicalised_word_ranks_first_whole_and_its_split_is_still_listed() {
+    let rules = german();
+    assert!(rules.settings.lexicalised_bonus > 0.0);
+    let lex = lexicon(&rules, LEXICALISED);
+    let all = analyses(&rules, &lex, "Hochzeit");
+    assert_eq!(all[0], ["Hochzeit"]);
+    assert!(all.contains(&vec!["hoch".to_string(), "Zeit".to_string()]));
+    // The same frequencies without the tag: the split wins (Frühstück has
+    // no tag in this lexicon).
+    assert_eq!(analyses(&rules, &lex, "Frühstück")[0], ["früh", "Stück"]);
+}
+
+#[test]
+fn a_lexicalised_word_stays_one_part_inside_a_longer_compound() {
+    let rules = german();
+    let lex = lexicon(&rules, LEXICALISED);
+    assert_eq!(
+        analyses(&rules, &lex, "Hochzeitstag")[0],
+        ["Hochzeit", "Tag"]
+    );
+}
+
+#[test]
+fn the_bonus_is_off_unless_a_rule_set_sets_it() {
+    let text = "language x\ncase fold\nset ranking = frequency\nrule join: + -> |\n";
+    let plain = compile_str("x.jr", text);
+    assert_eq!(plain.settings.lexicalised_bonus, 0.0);
+    let lex = lexicon(&plain, LEXICALISED);
+    assert_eq!(analyses(&plain, &lex, "hochzeit")[0], ["hoch", "Zeit"]);
+    let with = compile_str("x.jr", &format!("{text}set lexicalised-bonus = 4\n"));
+    assert_eq!(with.settings.lexicalised_bonus, 4.0);
+    assert_eq!(analyses(&with, &lex, "hochzeit")[0], ["Hochzeit"]);
+}
+
+const LINKING: &str = "\
+Kaffee\t30000\tpos=noun
+Ersatz\t3000\tpos=noun
+Satz\t60000\tpos=noun
+Kind\t100000\tpos=noun
+Kinder\t60000\tpos=noun;lemma=Kind
+Buch\t40000\tpos=noun
+Lied\t20000\tpos=noun
+Gast\t20000\tpos=noun
+Gäste\t9000\tpos=noun;lemma=Gast
+Haus\t90000\tpos=noun
+";
+
+#[test]
+fn a_linking_element_needs_the_first_word_written_with_it_to_be_a_form_of_that_word() {
+    let rules = german();
+    assert!(rules
+        .rules
+        .iter()
+        .any(|r| r.name == "link-er" && r.attested));
+    let lex = lexicon(&rules, LINKING);
+    // Kinder is a form of Kind: Kind + er + Buch.
+    assert_eq!(analyses(&rules, &lex, "Kinderbuch")[0], ["Kind", "Buch"]);
+    // Gäste is a form of Gast: the umlaut plural is read.
+    assert_eq!(analyses(&rules, &lex, "Gästehaus")[0], ["Gast", "Haus"]);
+    // Kaffeeer is no form of Kaffee: not Kaffee + er + Satz.
+    let all = analyses(&rules, &lex, "Kaffeeersatz");
+    assert_eq!(all[0], ["Kaffee", "Ersatz"]);
+    assert!(!all.contains(&vec!["Kaffee".to_string(), "Satz".to_string()]));
+    // Lieder is not in this lexicon, so Lied + er + Buch is not read here.
+    assert!(!analyses(&rules, &lex, "Liederbuch")
+        .contains(&vec!["Lied".to_string(), "Buch".to_string()]));
+}
+
+#[test]
+fn the_attested_clause_parses_and_join_still_writes_every_form() {
+    let text =
+        "language x\ncase fold\nrule link-er: + -> e r |\n  attested\nrule plain-er: + -> e r |\n";
+    let rules = compile_str("x.jr", text);
+    assert!(rules.rules[0].attested);
+    assert!(!rules.rules[1].attested);
+    let lex = lexicon(&rules, LINKING);
+    // Splitting: only the rule without the clause reads Kaffee + er + Satz.
+    let rec = record(&rules, &lex, "kaffeeersatz");
+    let rules_used: Vec<Vec<String>> = rec
+        .record
+        .analyses
+        .iter()
+        .filter(|a| a.parts.len() == 2 && a.parts[1].form == "Satz")
+        .map(|a| a.junctions.iter().map(|j| j.rule.clone()).collect())
+        .collect();
+    assert_eq!(rules_used, [["plain-er"]]);
+    // Joining writes the form through both rules.
+    let joined = join(&rules, &lex, &["Kaffee", "Satz"], ScopeFilter::Any, 10);
+    let by: Vec<&str> = joined
+        .results
+        .iter()
+        .filter(|j| j.surface.to_lowercase() == "kaffeeersatz")
+        .flat_map(|j| j.junctions.iter().map(|s| s.rule.as_str()))
+        .collect();
+    assert!(
+        by.contains(&"link-er") && by.contains(&"plain-er"),
+        "{by:?}"
+    );
+}
+
+/// The bundled German lexicon writes ß where the current orthography does
+/// (wordfreq's list folds it to ss; the lexicon build puts it back from a
+/// spelling dictionary, see lexicons/README.md). Input in either spelling
+/// finds the same parts; the parts are shown in the lexicon's spelling.
+#[test]
+fn the_bundled_lexicon_spells_sharp_s_as_the_current_orthography_does() {
+    let rules = german();
+    let (lexicon, _) = Lexicon::for_rules(&rules, &[], true, false).expect("bundled lexicon");
+    let best = |word: &str| -> Vec<String> {
+        let rec = record(&rules, &lexicon, word);
+        rec.record.analyses[0]
+            .parts
+            .iter()
+            .map(|p| p.form.clone())
+            .collect()
+    };
+    // ß after a long vowel or diphthong (Straße, Fuß, groß) ...
+    assert_eq!(best("Straßenbahn"), ["Straße", "Bahn"]);
+    assert_eq!(best("Strassenbahn"), ["Straße", "Bahn"]);
+    assert_eq!(best("Großstadt"), ["groß", "Stadt"]);
+    // ... ss after a short one, also where the older spelling wrote ß
+    // (Schloß, Fluß before 1996).
+    assert_eq!(best("Schlossgarten"), ["Schloss", "Garten"]);
+    assert_eq!(best("Flussufer"), ["Fluss", "Ufer"]);
+}
+
+#[test]
+fn the_bundled_lexicon_keeps_lexicalised_words_and_their_forms_whole() {
+    let rules = german();
+    let (lexicon, _) = Lexicon::for_rules(&rules, &[], true, false).expect("bundled lexicon");
+    for word in [
+        "Hochzeit",
+        "Maulwurf",
+        "Bäckerei",
+        "Bäckereien",
+        "Frühstücks",
+    ] {
+        let rec = record(&rules, &lexicon, word);
+        assert_eq!(rec.record.analyses[0].parts.len(), 1, "{word}");
+    }
+}
