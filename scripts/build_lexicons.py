@@ -560,18 +560,18 @@ class GermanTagger:
         return out
 
 
-# Short forms that HanTa reads only as a verb with a lemma that the
-# spelling dictionary does not know are fragments it has made a participle
-# of (ren -> lemma "ger", len -> "geln"): a real short verb form has a real
-# lemma (geh -> gehen, tu -> tun).  Such forms are dropped.
+# A verb reading of a short form with a lemma that the spelling dictionary
+# does not know is a fragment HanTa has made a participle of (ren -> lemma
+# "ger", len -> "geln"): a real short verb form has a real lemma (geh ->
+# gehen, tu -> tun).  Such readings are dropped, and the form with them when
+# it has no other reading.
 STRAY_VERB_MAX_LEN = 4
 
 
-def stray_verb(readings, known):
-    """Every reading is a verb whose lemma is not a known word."""
-    return bool(readings) and all(
-        r["pos"] == "verb" and r.get("lemma") and fold_ss(r["lemma"].lower()) not in known
-        for r in readings)
+def stray_verb(reading, known):
+    """The reading is a verb whose lemma is not a known word."""
+    return (reading["pos"] == "verb" and bool(reading.get("lemma"))
+            and fold_ss(reading["lemma"].lower()) not in known)
 
 
 def is_unknown(score):
@@ -803,12 +803,15 @@ def build(lang, outdir, tag_cache=None):
                     and form not in sharp_s.known):
                 dropped["unknown"] = dropped.get("unknown", 0) + 1
                 continue
-            if (len(form) <= STRAY_VERB_MAX_LEN and stray_verb(readings, sharp_s.known)
-                    and form not in lemmas):
-                dropped["stray verb"] = dropped.get("stray verb", 0) + 1
-                continue
+            if len(form) <= STRAY_VERB_MAX_LEN:
+                rest = [r for r in readings if not stray_verb(r, sharp_s.known)]
+                if len(rest) < len(readings):
+                    dropped["stray verb"] = dropped.get("stray verb", 0) + 1
+                    if not rest:
+                        continue
+                    e = (form, e[1], rest, score)
             kept.append(e)
-        print(f"[{lang}] dropped {dropped.get('stray verb', 0)} short forms read only as a verb "
+        print(f"[{lang}] dropped the verb reading of {dropped.get('stray verb', 0)} short forms "
               "whose lemma the spelling dictionary does not list", file=sys.stderr, flush=True)
         print(f"[{lang}] dropped {dropped.get('unknown', 0)} unknown short forms",
               file=sys.stderr, flush=True)
@@ -899,8 +902,9 @@ def build(lang, outdir, tag_cache=None):
                       f"{UNKNOWN_SCORE:g} on both spellings), that are not the lemma of a known form and that "
                       f"the spelling dictionary {SPELLING_PACKAGE} does not list dropped "
                       f"({dropped.get('unknown', 0)} forms)")
-        header.append(f"#   - forms of at most {STRAY_VERB_MAX_LEN} letters read only as a verb whose lemma the "
-                      f"spelling dictionary does not list (ren: lemma ger) dropped ({dropped.get('stray verb', 0)} forms)")
+        header.append(f"#   - verb readings of forms of at most {STRAY_VERB_MAX_LEN} letters whose lemma the spelling "
+                      f"dictionary does not list (ren: lemma ger) dropped, with the form when it has no other "
+                      f"reading ({dropped.get('stray verb', 0)} forms)")
         header.append(f"#   - lexicalised=yes on every reading of the forms in lexicons/{LEXICALISED_FILE} "
                       "(a hand list, from memory) and on readings whose lemma is one of them")
     header.append(f"# entries: {len(entries)} (from {raw} in the wordfreq list)"

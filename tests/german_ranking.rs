@@ -189,3 +189,41 @@ fn the_bundled_lexicon_keeps_lexicalised_words_and_their_forms_whole() {
         assert_eq!(rec.record.analyses[0].parts.len(), 1, "{word}");
     }
 }
+
+/// Ambiguous compounds keep both readings near the top (bundled lexicon;
+/// the readings are the ones a German reader sees in these words).
+#[test]
+fn both_readings_of_an_ambiguous_compound_are_among_the_best_five() {
+    let rules = german();
+    let (lexicon, _) = Lexicon::for_rules(&rules, &[], true, false).expect("bundled lexicon");
+    let cases: [(&str, [&[&str]; 2]); 4] = [
+        ("Staubecken", [&["stau", "becken"], &["staub", "ecken"]]),
+        (
+            "Druckerzeugnis",
+            [&["druck", "erzeugnis"], &["drucker", "zeugnis"]],
+        ),
+        (
+            "Musikerleben",
+            [&["musik", "erleben"], &["musiker", "leben"]],
+        ),
+        (
+            "Bauerwartungsland",
+            [&["bau", "erwartung", "land"], &["bauer", "wartung", "land"]],
+        ),
+    ];
+    for (word, readings) in cases {
+        let top: Vec<Vec<String>> = record(&rules, &lexicon, word)
+            .record
+            .analyses
+            .iter()
+            .take(5)
+            .map(|a| a.parts.iter().map(|p| p.form.to_lowercase()).collect())
+            .collect();
+        for reading in readings {
+            assert!(
+                top.iter().any(|t| t == reading),
+                "{word}: {reading:?} not among {top:?}"
+            );
+        }
+    }
+}
