@@ -98,12 +98,19 @@ pub(super) struct LazyEntries {
     /// would cost more time and memory than the rest of the load.
     reading_sets: Vec<(u32, u32)>,
     spellings: std::collections::HashMap<usize, String>,
-    cache: Vec<OnceLock<Entry>>,
+    /// Entries built so far, in blocks of [`BLOCK`] allocated when one of
+    /// their entries is first built (a slot for every entry at start-up
+    /// would mean writing tens of megabytes before the first word).
+    cache: Vec<OnceLock<Box<[OnceLock<Entry>]>>>,
+    entries: usize,
 }
+
+/// Entries per block of [`LazyEntries`]'s cache.
+const BLOCK: usize = 64;
 
 impl LazyEntries {
     pub(super) fn len(&self) -> usize {
-        self.cache.len()
+        self.entries
     }
 
     fn record(&self, id: usize) -> (f64, usize) {
@@ -130,7 +137,9 @@ impl LazyEntries {
     }
 
     pub(super) fn get(&self, id: usize) -> &Entry {
-        self.cache[id].get_or_init(|| {
+        let block =
+            self.cache[id / BLOCK].get_or_init(|| (0..BLOCK).map(|_| OnceLock::new()).collect());
+        block[id % BLOCK].get_or_init(|| {
             let (frequency, meta) = self.record(id);
             let key = key_of(&self.index, id as u64);
             let form = match meta & 3 {
@@ -332,22 +341,47 @@ pub fn load(
         ))
     };
     let hlen = r.u32().ok_or_else(corrupt)? as usize;
+    let header_at = r.at;
     let header_bytes = r.take(hlen).ok_or_else(corrupt)?;
-    let header: HeaderIn = serde_json::from_slice(header_bytes).map_err(|_| corrupt())?;
-    // Byte ranges of the sets of readings within the file.
-    let base = all.as_ptr() as usize;
-    let mut reading_sets = Vec::with_capacity(header.reading_sets.len());
-    for raw in &header.reading_sets {
-        let text = raw.get();
-        let start = (text.as_ptr() as usize).wrapping_sub(base);
-        if start
-            .checked_add(text.len())
-            .is_none_or(|end| end > all.len())
-        {
+    // Byte ranges of the sets of readings within the file. An embedded
+    // lexicon was written by `write` and is tested with the binary: its sets
+    // are found by a scan of the bytes, and only the rest of the header is
+    // parsed (parsing the sets' JSON only to skip it took most of start-up).
+    // A file from disk is parsed in full, so a damaged set is refused here.
+    let scanned = match bytes.data {
+        Data::Static(_) => scan_reading_sets(header_bytes),
+        Data::Shared(_) => None,
+    };
+    let (header, ranges): (HeaderIn, Vec<(usize, usize)>) = match &scanned {
+        Some(scan) => {
+            let header = serde_json::from_slice(&scan.rest).map_err(|_| corrupt())?;
+            let ranges = scan
+                .sets
+                .iter()
+                .map(|&(start, len)| (header_at + start, len))
+                .collect();
+            (header, ranges)
+        }
+        None => {
+            let header: HeaderIn = serde_json::from_slice(header_bytes).map_err(|_| corrupt())?;
+            let base = all.as_ptr() as usize;
+            let ranges = header
+                .reading_sets
+                .iter()
+                .map(|raw| {
+                    let text = raw.get();
+                    ((text.as_ptr() as usize).wrapping_sub(base), text.len())
+                })
+                .collect();
+            (header, ranges)
+        }
+    };
+    let mut reading_sets = Vec::with_capacity(ranges.len());
+    for (start, len) in ranges {
+        if start.checked_add(len).is_none_or(|end| end > all.len()) {
             return Err(corrupt());
         }
-        let range = (u32::try_from(start), u32::try_from(text.len()));
-        let (Ok(start), Ok(len)) = range else {
+        let (Ok(start), Ok(len)) = (u32::try_from(start), u32::try_from(len)) else {
             return Err(corrupt());
         };
         reading_sets.push((start, len));
@@ -382,7 +416,10 @@ pub fn load(
         bytes: bytes.clone(),
         reading_sets,
         spellings: header.spellings.into_iter().collect(),
-        cache: (0..header.entries).map(|_| OnceLock::new()).collect(),
+        cache: (0..header.entries.div_ceil(BLOCK))
+            .map(|_| OnceLock::new())
+            .collect(),
+        entries: header.entries,
     };
     Ok(Lexicon::from_compiled(
         index,
@@ -391,6 +428,91 @@ pub fn load(
         header.tag_keys.into_iter().collect(),
         header.normalizer,
     ))
+}
+
+/// A header split by [`scan_reading_sets`].
+struct ScannedHeader {
+    /// The header with its `reading_sets` array emptied (`[]`).
+    rest: Vec<u8>,
+    /// (start, length) of each set within the header.
+    sets: Vec<(usize, usize)>,
+}
+
+/// Finds the sets of readings in a header written by [`write`]: the value of
+/// the top-level key `reading_sets`, an array of arrays, by one pass over the
+/// bytes that follows strings and brackets. `None` when the header is not laid
+/// out that way (then it is parsed in full).
+fn scan_reading_sets(header: &[u8]) -> Option<ScannedHeader> {
+    const KEY: &[u8] = b"reading_sets";
+    let mut depth = 0usize;
+    let mut i = 0;
+    // Where the array starts, once the key has been read at depth 1.
+    let mut key_seen = false;
+    let mut array: Option<usize> = None;
+    let mut element = 0;
+    let mut sets = Vec::new();
+    while i < header.len() {
+        match header[i] {
+            b'"' => {
+                // Only keys and values of other fields are strings here: the
+                // sets' own strings are inside brackets deeper down.
+                if array.is_some() && depth == 2 {
+                    return None;
+                }
+                let start = i + 1;
+                i = start;
+                loop {
+                    match *header.get(i)? {
+                        b'"' => break,
+                        b'\\' => i += 2,
+                        _ => i += 1,
+                    }
+                }
+                if depth == 1 && &header[start..i] == KEY {
+                    // The key, then `:` and the array.
+                    let mut after = header[i + 1..].iter().filter(|b| !b.is_ascii_whitespace());
+                    if after.next() != Some(&b':') || after.next() != Some(&b'[') {
+                        return None;
+                    }
+                    key_seen = true;
+                }
+            }
+            b'[' | b'{' => {
+                depth += 1;
+                if key_seen && depth == 2 {
+                    if header[i] != b'[' {
+                        return None;
+                    }
+                    key_seen = false;
+                    array = Some(i);
+                } else if array.is_some() && depth == 3 {
+                    if header[i] != b'[' {
+                        return None;
+                    }
+                    element = i;
+                }
+            }
+            b']' | b'}' => {
+                if let Some(start) = array {
+                    if depth == 3 {
+                        sets.push((element, i + 1 - element));
+                    } else if depth == 2 {
+                        let mut rest = Vec::with_capacity(header.len() - (i - start) + 1);
+                        rest.extend_from_slice(&header[..start]);
+                        rest.extend_from_slice(b"[]");
+                        rest.extend_from_slice(&header[i + 1..]);
+                        return Some(ScannedHeader { rest, sets });
+                    }
+                }
+                depth = depth.checked_sub(1)?;
+            }
+            b',' | b':' | b' ' | b'\n' | b'\r' | b'\t' => {}
+            _ if array.is_some() && depth == 2 => return None,
+            _ => {}
+        }
+        i += 1;
+    }
+    None
 }
 
 /// A one-paragraph description of a compiled lexicon's header.
@@ -458,6 +580,25 @@ mod tests {
         let c = back.step_str(back.root(), "arbeit").unwrap();
         assert_eq!(back.entry(back.entry_at(c).unwrap()).form, "Arbeit");
         assert_eq!(back.total_frequency(), lex.total_frequency());
+    }
+
+    #[test]
+    fn scanned_and_parsed_headers_give_the_same_readings() {
+        let (lex, n) = sample();
+        let bytes = lex.to_compiled(&["t.tsv".into()]);
+        let fp = normalizer_fingerprint(&n);
+        let embedded: &'static [u8] = Box::leak(bytes.clone().into_boxed_slice());
+        let scanned = load("x", IndexBytes::embedded(embedded), Some(&fp)).unwrap();
+        let parsed = load("x", IndexBytes::owned(bytes), Some(&fp)).unwrap();
+        assert_eq!(scanned.len(), parsed.len());
+        for id in 0..parsed.len() {
+            assert_eq!(scanned.entry(id), parsed.entry(id));
+        }
+        assert!(
+            scan_reading_sets(br#"{"entries":1,"reading_sets":[[{"a":"]"}],[]]}"#)
+                .is_some_and(|s| s.sets == vec![(29, 11), (41, 2)] && s.rest.ends_with(b"[]}"))
+        );
+        assert!(scan_reading_sets(br#"{"x":"reading_sets","reading_sets":null}"#).is_none());
     }
 
     #[test]
