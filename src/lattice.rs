@@ -307,7 +307,21 @@ struct WordSpan {
 struct PendingPart<'a> {
     node: NodeIndex,
     carried: &'a str,
+    /// The number of `carried` (see `SurfaceTrie::right_id`).
+    right: u32,
     pending: Option<usize>,
+}
+
+/// An entry that a walk of the lexicon from a part node found (see
+/// `Builder::walk`): its letters read directly end at `q`, then comes the end
+/// of the input (`group` is `None`) or the junction instances
+/// `surface.instances[from..to]` of a surface ending at `after`.
+#[derive(Clone, Copy)]
+struct Found {
+    q: usize,
+    after: usize,
+    id: usize,
+    group: Option<(u32, u32, u32)>,
 }
 
 struct Builder<'a> {
@@ -335,6 +349,10 @@ struct Builder<'a> {
     truncated: Option<Truncation>,
     /// Scratch stack of the left-end walk.
     stack: Vec<(u32, State<'a>)>,
+    /// What the lexicon walks found, per (position, carried start number):
+    /// a range of `found`.
+    walks: IntMap<(usize, u32), (usize, usize)>,
+    found: Vec<Found>,
     /// Whether a condition list (by its number) holds for an entry (or, when
     /// the list tests only tags, for every entry with the same readings).
     memo: &'a ConditionMemo,
@@ -510,6 +528,8 @@ pub fn build_with(
             .unwrap_or(rules.settings.min_part_length),
         truncated: None,
         stack: Vec::new(),
+        walks: IntMap::default(),
+        found: Vec::new(),
         memo,
         key: String::new(),
     };
@@ -517,6 +537,7 @@ pub fn build_with(
     b.parts_at[0].push(PendingPart {
         node: start,
         carried: "",
+        right: 0,
         pending: None,
     });
     b.find_junctions();
@@ -599,7 +620,8 @@ impl<'a> Builder<'a> {
     }
 
     fn part(&mut self, pos: usize, instance: usize, pending: Option<usize>) -> NodeIndex {
-        let key = (pos, self.rules.surface_trie.right_id(instance), pending);
+        let right = self.rules.surface_trie.right_id(instance);
+        let key = (pos, right, pending);
         if let Some(&i) = self.parts.get(&key) {
             return i;
         }
@@ -613,6 +635,7 @@ impl<'a> Builder<'a> {
         self.parts_at[pos].push(PendingPart {
             node: i,
             carried,
+            right,
             pending,
         });
         self.parts.insert(key, i);
@@ -690,107 +713,147 @@ impl<'a> Builder<'a> {
                 return;
             }
         }
-        let n = self.chars.len();
-        let lexicon = self.lexicon;
         let carried_chars = part.carried.chars().count();
-        if let Some(cursor) = lexicon.step_str(lexicon.root(), part.carried) {
-            let mut state = lexicon.at(cursor);
-            let mut q = pos;
-            loop {
-                if self.bounds[q] {
-                    self.word_ends(part, pos, carried_chars, state, q);
-                    if self.truncated.is_some() {
-                        return;
-                    }
-                }
-                if q == n {
-                    break;
-                }
-                match state.next_char(self.chars[q]) {
-                    Some(next) => state = next,
-                    None => break,
-                }
-                q += 1;
+        // Part nodes at one position with the same carried start (they
+        // differ in the rule whose right conditions are pending) read the
+        // same words: the lexicon is walked once for all of them.
+        let (from, to) = match self.walks.get(&(pos, part.right)) {
+            Some(&range) => range,
+            None => {
+                let from = self.found.len();
+                self.walk(part.carried, pos);
+                let range = (from, self.found.len());
+                self.walks.insert((pos, part.right), range);
+                range
             }
+        };
+        let rules = self.rules;
+        let mut at = None;
+        for i in from..to {
+            let found = self.found[i];
+            // Limits are checked after all the words ending at one position.
+            if at != Some(found.q) {
+                if self.truncated.is_some() {
+                    return;
+                }
+                at = Some(found.q);
+            }
+            let span = WordSpan {
+                pos,
+                carried_chars,
+                q: found.q,
+                after: found.after,
+            };
+            match found.group {
+                None => self.end_edge(part, span, found.id),
+                Some((surface, from, to)) => {
+                    let surface = rules.surface_trie.surface(surface);
+                    let group = &surface.instances[from as usize..to as usize];
+                    self.group_edges(part, span, group, found.id);
+                }
+            }
+        }
+        if self.truncated.is_some() {
+            return;
         }
         if part.carried.is_empty() {
             self.pattern_words(part.node, pos, part.pending);
         }
     }
 
-    /// Every word read from `part` whose letters read directly end at `q`
-    /// (`state` is the lexicon after them): the whole rest of the input,
-    /// or any junction starting at `q` whose left end completes an entry.
-    fn word_ends(
-        &mut self,
-        part: PendingPart<'a>,
-        pos: usize,
-        carried_chars: usize,
-        state: State<'a>,
-        q: usize,
-    ) {
+    /// Walks the lexicon from `carried` along the input from `pos` and
+    /// appends to `found`, in the order edges are added, every entry that
+    /// ends where a word may end: at the end of the input, or before a
+    /// junction starting at a segment boundary `q` whose left end completes
+    /// it (the left ends of one surface in byte order, each walked once).
+    fn walk(&mut self, carried: &str, pos: usize) {
         let n = self.chars.len();
-        let node = part.node;
-        if q == n {
-            if let Some(id) = state.entry() {
-                let key = &self.lexicon.entry(id).key;
-                let whole = node == self.start;
-                if self.aligned(key, carried_chars, 0)
-                    && self.word_allowed(node, part.pending, key, PartSource::Entry(id))
-                    && self.conditions_hold(
-                        &self.rules.edge_end,
-                        self.rules.condition_ids.edge_end,
-                        key,
-                        PartSource::Entry(id),
-                    )
-                    && (whole || key.chars().count() >= self.min_part)
-                {
-                    let edge = WordEdge {
-                        source: PartSource::Entry(id),
-                        key: key.clone(),
-                        carried: part.carried.to_string(),
-                        left_end: String::new(),
-                        start: pos,
-                        end: q,
-                        frequency: self.lexicon.entry(id).frequency,
-                    };
-                    self.add_edge(node, self.end, Edge::Word(edge));
-                }
-            }
-        }
+        let lexicon = self.lexicon;
         let rules = self.rules;
+        let Some(cursor) = lexicon.step_str(lexicon.root(), carried) else {
+            return;
+        };
+        let mut state = lexicon.at(cursor);
         let mut stack = std::mem::take(&mut self.stack);
-        for m in self.match_start[q]..self.match_start[q + 1] {
-            let (surface, after) = self.matches[m];
-            if after == pos {
-                continue; // nothing read and nothing on the surface: no progress
-            }
-            let surface = rules.surface_trie.surface(surface);
-            // The left ends in byte order, each walked once from `state`.
-            stack.clear();
-            stack.push((0, state));
-            while let Some((at, here)) = stack.pop() {
-                let left = &surface.lefts[at as usize];
-                if let Some((from, to)) = left.group {
-                    if let Some(id) = here.entry() {
-                        let group = &surface.instances[from as usize..to as usize];
-                        let span = WordSpan {
-                            pos,
-                            carried_chars,
+        let mut q = pos;
+        loop {
+            if self.bounds[q] {
+                if q == n {
+                    if let Some(id) = state.entry() {
+                        self.found.push(Found {
                             q,
-                            after,
-                        };
-                        self.group_edges(part, span, group, id);
+                            after: n,
+                            id,
+                            group: None,
+                        });
                     }
                 }
-                for &(byte, child) in left.children.iter().rev() {
-                    if let Some(next) = here.next(byte) {
-                        stack.push((child, next));
+                for m in self.match_start[q]..self.match_start[q + 1] {
+                    let (surface_id, after) = self.matches[m];
+                    if after == pos {
+                        continue; // nothing read and nothing on the surface: no progress
+                    }
+                    let surface = rules.surface_trie.surface(surface_id);
+                    stack.clear();
+                    stack.push((0, state));
+                    while let Some((at, here)) = stack.pop() {
+                        let left = &surface.lefts[at as usize];
+                        if let Some((from, to)) = left.group {
+                            if let Some(id) = here.entry() {
+                                self.found.push(Found {
+                                    q,
+                                    after,
+                                    id,
+                                    group: Some((surface_id, from, to)),
+                                });
+                            }
+                        }
+                        for &(byte, child) in left.children.iter().rev() {
+                            if let Some(next) = here.next(byte) {
+                                stack.push((child, next));
+                            }
+                        }
                     }
                 }
             }
+            if q == n {
+                break;
+            }
+            match state.next_char(self.chars[q]) {
+                Some(next) => state = next,
+                None => break,
+            }
+            q += 1;
         }
         self.stack = stack;
+    }
+
+    /// The word edge for entry `id` read from `part` to the end of the input.
+    fn end_edge(&mut self, part: PendingPart<'a>, span: WordSpan, id: usize) {
+        let node = part.node;
+        let key = &self.lexicon.entry(id).key;
+        let whole = node == self.start;
+        if self.aligned(key, span.carried_chars, 0)
+            && self.word_allowed(node, part.pending, key, PartSource::Entry(id))
+            && self.conditions_hold(
+                &self.rules.edge_end,
+                self.rules.condition_ids.edge_end,
+                key,
+                PartSource::Entry(id),
+            )
+            && (whole || key.chars().count() >= self.min_part)
+        {
+            let edge = WordEdge {
+                source: PartSource::Entry(id),
+                key: key.clone(),
+                carried: part.carried.to_string(),
+                left_end: String::new(),
+                start: span.pos,
+                end: span.q,
+                frequency: self.lexicon.entry(id).frequency,
+            };
+            self.add_edge(node, self.end, Edge::Word(edge));
+        }
     }
 
     /// The word edges for entry `id` ending before the junction instances
