@@ -161,6 +161,23 @@ static INTERRUPTED: AtomicBool = AtomicBool::new(false);
 /// Held while one input is analysed and its record written, so that an
 /// interrupt never cuts a record in half.
 static RECORD: Mutex<()> = Mutex::new(());
+/// Standard output, buffered. Records are written to it whole, and it is
+/// flushed after a record unless the next input line is already read (see
+/// [`NEXT_LINE_READY`]), when the output ends, and before an exit on Ctrl-C:
+/// a reader waiting for the answer to a line gets it at once, and a batch
+/// does not pay for a write per line.
+static OUT: Mutex<Option<io::BufWriter<io::Stdout>>> = Mutex::new(None);
+/// Set while the next input line is already in the input buffer (so no
+/// one can be waiting for the record just written before sending more).
+static NEXT_LINE_READY: AtomicBool = AtomicBool::new(false);
+
+/// Flushes [`OUT`]; errors (a closed stdout) are left to the next write.
+fn flush_out() {
+    let mut out = OUT.lock().unwrap_or_else(|e| e.into_inner());
+    if let Some(w) = out.as_mut() {
+        let _ = w.flush();
+    }
+}
 
 /// Installs the SIGINT handler (once). On Ctrl-C the record being written is
 /// finished and flushed, then the process exits with [`EXIT_INTERRUPTED`]:
@@ -176,6 +193,7 @@ fn install_interrupt_handler() {
             // (holding the lock) if it sees the flag first, so only one
             // thread ever calls exit.
             let _guard = RECORD.lock().unwrap_or_else(|e| e.into_inner());
+            flush_out();
             std::process::exit(EXIT_INTERRUPTED);
         });
     });
@@ -190,7 +208,8 @@ fn one_record(
     let _guard = RECORD.lock().unwrap_or_else(|e| e.into_inner());
     let result = each(line);
     if INTERRUPTED.load(Ordering::SeqCst) {
-        // The record is written and flushed (RecordWriter::write flushes).
+        // The record is written; everything written reaches stdout.
+        flush_out();
         std::process::exit(EXIT_INTERRUPTED);
     }
     result
@@ -224,7 +243,8 @@ pub fn for_each_input_with(
         return Ok(());
     }
     let stdin = io::stdin();
-    let mut reader = stdin.lock();
+    // Its own buffer, to see whether the next line is already read.
+    let mut reader = io::BufReader::with_capacity(64 * 1024, stdin.lock());
     let mut buf = Vec::new();
     loop {
         buf.clear();
@@ -241,6 +261,7 @@ pub fn for_each_input_with(
         if buf.last() == Some(&b'\r') {
             buf.pop();
         }
+        NEXT_LINE_READY.store(reader.buffer().contains(&b'\n'), Ordering::Relaxed);
         let line = match std::str::from_utf8(&buf) {
             Ok(s) => Ok(s.to_string()),
             Err(e) => Err(BadLine {
@@ -253,6 +274,7 @@ pub fn for_each_input_with(
         };
         one_record(line, &mut each)?;
     }
+    NEXT_LINE_READY.store(false, Ordering::Relaxed);
     if let Some(p) = &progress {
         p.finish();
     }
@@ -262,67 +284,91 @@ pub fn for_each_input_with(
 /// Writes records in a streaming way: JSON arrays and YAML sequences are
 /// opened and closed around the records.
 pub struct RecordWriter {
-    out: io::BufWriter<io::Stdout>,
     format: Format,
     written: usize,
 }
 
 impl RecordWriter {
     pub fn new(format: Format) -> Self {
-        RecordWriter {
-            out: io::BufWriter::new(io::stdout()),
-            format,
-            written: 0,
-        }
+        RecordWriter { format, written: 0 }
     }
 
-    /// Writes one record and flushes, so output line N belongs to input line N.
+    /// Writes one record (flushed unless the next input line is ready, so
+    /// output line N belongs to input line N as soon as it is asked for).
     pub fn write<T: serde::Serialize>(
         &mut self,
         record: &T,
         text: impl FnOnce() -> String,
         tsv: impl FnOnce() -> String,
     ) -> Result<(), Failure> {
-        match self.format {
-            Format::Text => self.out.write_all(text().as_bytes())?,
-            Format::Tsv => self.out.write_all(tsv().as_bytes())?,
+        let body = self.render(record, text, tsv)?;
+        self.write_rendered(&body)
+    }
+
+    /// The rendering of one record that does not depend on its place in the
+    /// output (for [`write_rendered`](Self::write_rendered)), so that a
+    /// repeated input's record is rendered once.
+    pub fn render<T: serde::Serialize>(
+        &self,
+        record: &T,
+        text: impl FnOnce() -> String,
+        tsv: impl FnOnce() -> String,
+    ) -> Result<String, Failure> {
+        Ok(match self.format {
+            Format::Text => text(),
+            Format::Tsv => tsv(),
             Format::Jsonl => {
-                let line =
+                let mut line =
                     serde_json::to_string(record).map_err(|e| Failure::Usage(e.to_string()))?;
-                writeln!(self.out, "{line}")?;
+                line.push('\n');
+                line
             }
-            Format::Json => {
-                let body = serde_json::to_string_pretty(record)
-                    .map_err(|e| Failure::Usage(e.to_string()))?;
-                let body = body.replace('\n', "\n  ");
-                write!(
-                    self.out,
-                    "{}\n  {body}",
-                    if self.written == 0 { "[" } else { "," }
-                )?;
-            }
-            Format::Yaml => self
-                .out
-                .write_all(juncture::output::yaml_item(record).as_bytes())?,
+            Format::Json => serde_json::to_string_pretty(record)
+                .map_err(|e| Failure::Usage(e.to_string()))?
+                .replace('\n', "\n  "),
+            Format::Yaml => juncture::output::yaml_item(record),
+        })
+    }
+
+    /// Writes a record rendered by [`render`](Self::render).
+    pub fn write_rendered(&mut self, body: &str) -> Result<(), Failure> {
+        let mut out = OUT.lock().unwrap_or_else(|e| e.into_inner());
+        let out = out.get_or_insert_with(|| io::BufWriter::new(io::stdout()));
+        if self.format == Format::Json {
+            let open = if self.written == 0 { "[" } else { "," };
+            write!(out, "{open}\n  {body}")?;
+        } else {
+            out.write_all(body.as_bytes())?;
         }
         self.written += 1;
-        self.out.flush()?;
+        if !NEXT_LINE_READY.load(Ordering::Relaxed) {
+            out.flush()?;
+        }
         Ok(())
     }
 
     /// Closes a JSON array.
-    pub fn finish(mut self) -> Result<(), Failure> {
+    pub fn finish(self) -> Result<(), Failure> {
+        let mut out = OUT.lock().unwrap_or_else(|e| e.into_inner());
+        let out = out.get_or_insert_with(|| io::BufWriter::new(io::stdout()));
         if self.format == Format::Json {
             if self.written == 0 {
-                writeln!(self.out, "[]")?;
+                writeln!(out, "[]")?;
             } else {
-                writeln!(self.out, "\n]")?;
+                writeln!(out, "\n]")?;
             }
         }
         if self.format == Format::Yaml && self.written == 0 {
-            writeln!(self.out, "[]")?;
+            writeln!(out, "[]")?;
         }
-        self.out.flush()?;
+        out.flush()?;
         Ok(())
+    }
+}
+
+impl Drop for RecordWriter {
+    /// A run that stops on an error still gets out what it wrote.
+    fn drop(&mut self) {
+        flush_out();
     }
 }

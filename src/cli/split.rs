@@ -7,11 +7,13 @@ use super::progress::Progress;
 use super::{EXIT_OK, EXIT_SOME_FAILED};
 use clap::{Args, ValueEnum};
 use juncture::analyzer::{index_tokens, Analyzer, SplitRecord, TokenRecord};
+use juncture::lexicon::Lexicon;
 use juncture::output::{self, Format, TermsOptions};
+use juncture::rules::RuleSet;
 use juncture::script::Script;
 use juncture::scripted;
 use std::collections::HashMap;
-use std::sync::Arc;
+use std::sync::{Arc, OnceLock};
 use std::time::Duration;
 
 /// Split words or lines into their parts.
@@ -160,9 +162,11 @@ impl ScriptArg {
 }
 
 pub fn run(args: SplitArgs) -> Result<i32, Failure> {
-    let rules = args.source.load_rules()?;
-    let lexicon = args.source.load_lexicon(&rules)?;
-    let mut analyzer = Analyzer::new(&rules, &lexicon);
+    // The rule-set and lexicon live until the process ends: freeing their
+    // hundreds of thousands of small allocations at exit only costs time.
+    let rules: &RuleSet = Box::leak(Box::new(args.source.load_rules()?));
+    let lexicon: &Lexicon = Box::leak(Box::new(args.source.load_lexicon(rules)?));
+    let mut analyzer = Analyzer::new(rules, lexicon);
     analyzer.lattice.scope = args.scope.into();
     analyzer.lattice.max_input_chars = args.max_chars;
     analyzer.lattice.max_edges = args.max_edges;
@@ -175,7 +179,7 @@ pub fn run(args: SplitArgs) -> Result<i32, Failure> {
     if args.format == SplitFormat::Terms || args.passthrough {
         return run_tokens(&args, &analyzer, k);
     }
-    let analysed = scripted::rules_script(&rules);
+    let analysed = scripted::rules_script(rules);
     if analysed.is_none() && (args.script != ScriptArg::Auto || args.output_script.is_some()) {
         return Err(Failure::Usage(format!(
             "error: rule-set `{}` declares no script (`set script = …`), so --script and --output-script do not apply",
@@ -189,7 +193,7 @@ pub fn run(args: SplitArgs) -> Result<i32, Failure> {
     // blocks of lines for several.
     let batch_size = if jobs == 1 { 1 } else { 256 * jobs };
     let mut batch: Vec<InputLine> = Vec::with_capacity(batch_size);
-    let mut caches: Vec<HashMap<String, Arc<SplitRecord>>> = vec![HashMap::new(); jobs];
+    let mut caches: Vec<HashMap<String, Arc<Cached>>> = vec![HashMap::new(); jobs];
     for_each_input_with(&args.words, progress(&args), |line| {
         if let (Some(analysed), Ok(text)) = (analysed, &line) {
             let to = args.output_script.and_then(ScriptArg::script);
@@ -284,7 +288,16 @@ fn run_tokens(args: &SplitArgs, analyzer: &Analyzer, k: usize) -> Result<i32, Fa
     };
     let mut writer = RecordWriter::new(args.format.format());
     let failed = std::cell::Cell::new(0usize);
-    let one = |token: &str, writer: &mut RecordWriter| -> Result<(), Failure> {
+    // Rendered output (and whether it failed) of recent tokens: running
+    // text repeats its words, and a token's lines depend on it alone.
+    let mut cache: HashMap<String, (String, bool)> = HashMap::new();
+    let mut one = |token: &str, writer: &mut RecordWriter| -> Result<(), Failure> {
+        if let Some((rendered, failure)) = cache.get(token) {
+            if *failure {
+                failed.set(failed.get() + 1);
+            }
+            return writer.write_rendered(rendered);
+        }
         let record = if args.greedy {
             TokenRecord {
                 record: analyzer.split_greedy(token),
@@ -293,10 +306,11 @@ fn run_tokens(args: &SplitArgs, analyzer: &Analyzer, k: usize) -> Result<i32, Fa
         } else {
             analyzer.split_token(token, k, max_token)
         };
-        if record.is_failure() {
+        let failure = record.is_failure();
+        if failure {
             failed.set(failed.get() + 1);
         }
-        writer.write(
+        let rendered = writer.render(
             &record,
             || {
                 if terms {
@@ -310,7 +324,15 @@ fn run_tokens(args: &SplitArgs, analyzer: &Analyzer, k: usize) -> Result<i32, Fa
                 }
             },
             || output::split_tsv(&record.record),
-        )
+        )?;
+        writer.write_rendered(&rendered)?;
+        if args.cache > 0 {
+            if cache.len() >= args.cache {
+                cache.clear();
+            }
+            cache.insert(token.to_string(), (rendered, failure));
+        }
+        Ok(())
     };
     for_each_input_with(&args.words, progress(&args), |line| match line {
         Ok(text) if terms => {
@@ -347,11 +369,27 @@ fn run_tokens(args: &SplitArgs, analyzer: &Analyzer, k: usize) -> Result<i32, Fa
     })
 }
 
+/// A record in the type cache, with its rendering once it has been written
+/// (a repeated word is neither analysed nor rendered again).
+struct Cached {
+    record: SplitRecord,
+    rendered: OnceLock<String>,
+}
+
+impl Cached {
+    fn new(record: SplitRecord) -> Arc<Cached> {
+        Arc::new(Cached {
+            record,
+            rendered: OnceLock::new(),
+        })
+    }
+}
+
 /// Analyses a block of lines on `args.jobs` threads (each with its own type
 /// cache) and writes the records in input order. Returns how many failed.
 fn flush_batch(
     batch: &mut Vec<InputLine>,
-    caches: &mut [HashMap<String, Arc<SplitRecord>>],
+    caches: &mut [HashMap<String, Arc<Cached>>],
     analyzer: &Analyzer,
     args: &SplitArgs,
     k: usize,
@@ -361,30 +399,29 @@ fn flush_batch(
         return Ok(0);
     }
     let lines = std::mem::take(batch);
-    let one =
-        |line: &InputLine, cache: &mut HashMap<String, Arc<SplitRecord>>| -> Arc<SplitRecord> {
-            match line {
-                Ok(text) => {
-                    if let Some(hit) = cache.get(text) {
-                        return Arc::clone(hit);
-                    }
-                    let record = Arc::new(if args.greedy {
-                        analyzer.split_greedy(text)
-                    } else {
-                        analyzer.split(text, k)
-                    });
-                    if args.cache > 0 {
-                        if cache.len() >= args.cache {
-                            cache.clear();
-                        }
-                        cache.insert(text.clone(), Arc::clone(&record));
-                    }
-                    record
+    let one = |line: &InputLine, cache: &mut HashMap<String, Arc<Cached>>| -> Arc<Cached> {
+        match line {
+            Ok(text) => {
+                if let Some(hit) = cache.get(text) {
+                    return Arc::clone(hit);
                 }
-                Err(bad) => Arc::new(SplitRecord::failed(bad.lossy.clone(), bad.reason.clone())),
+                let record = Cached::new(if args.greedy {
+                    analyzer.split_greedy(text)
+                } else {
+                    analyzer.split(text, k)
+                });
+                if args.cache > 0 {
+                    if cache.len() >= args.cache {
+                        cache.clear();
+                    }
+                    cache.insert(text.clone(), Arc::clone(&record));
+                }
+                record
             }
-        };
-    let records: Vec<Arc<SplitRecord>> = if caches.len() <= 1 || lines.len() == 1 {
+            Err(bad) => Cached::new(SplitRecord::failed(bad.lossy.clone(), bad.reason.clone())),
+        }
+    };
+    let records: Vec<Arc<Cached>> = if caches.len() <= 1 || lines.len() == 1 {
         lines.iter().map(|l| one(l, &mut caches[0])).collect()
     } else {
         let chunk = lines.len().div_ceil(caches.len());
@@ -403,15 +440,23 @@ fn flush_batch(
         })
     };
     let mut failed = 0;
-    for record in &records {
+    for cached in &records {
+        let record = &cached.record;
         if record.is_failure() {
             failed += 1;
         }
-        writer.write(
-            &**record,
-            || output::split_text(record),
-            || output::split_tsv(record),
-        )?;
+        let rendered = match cached.rendered.get() {
+            Some(r) => r,
+            None => {
+                let r = writer.render(
+                    record,
+                    || output::split_text(record),
+                    || output::split_tsv(record),
+                )?;
+                cached.rendered.get_or_init(|| r)
+            }
+        };
+        writer.write_rendered(rendered)?;
     }
     Ok(failed)
 }
