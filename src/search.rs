@@ -216,28 +216,68 @@ struct Weights<'a> {
     divisor: f64,
 }
 
+/// What an edge's weight is made of, apart from the number of parts: its
+/// term (for a word in the frequency model, `ln f` before it is divided by
+/// the number of parts), and for a lexicon word when a `lexicalised-bonus`
+/// is set, the bonus it earns (0 or the bonus).
+#[derive(Clone, Copy)]
+struct EdgeTerms {
+    term: f64,
+    bonus: Option<f64>,
+    divided: bool,
+}
+
 impl Weights<'_> {
-    fn of(&self, edge: &Edge) -> f64 {
+    /// The terms of an edge, computed once per lattice.
+    fn terms(&self, edge: &Edge) -> EdgeTerms {
         match edge {
             Edge::Word(w) => {
-                let term = match self.options.ranking {
-                    Ranking::Frequency => w.frequency.max(1.0).ln() / self.divisor,
-                    Ranking::Probability => {
-                        self.lexicon.log_probability(w.frequency) - self.options.part_cost
-                    }
+                let (term, divided) = match self.options.ranking {
+                    Ranking::Frequency => (w.frequency.max(1.0).ln(), true),
+                    Ranking::Probability => (
+                        self.lexicon.log_probability(w.frequency) - self.options.part_cost,
+                        false,
+                    ),
                 };
-                match w.source {
+                let bonus = match w.source {
                     PartSource::Entry(id) if self.options.lexicalised_bonus != 0.0 => {
-                        term + lexicalised_bonus(self.lexicon, id, self.options)
+                        Some(lexicalised_bonus(self.lexicon, id, self.options))
                     }
-                    _ => term,
+                    _ => None,
+                };
+                EdgeTerms {
+                    term,
+                    bonus,
+                    divided,
                 }
             }
             Edge::Junction { instance } => {
                 let rule = &self.rules.rules[self.rules.instances[*instance].rule];
-                -(rule.cost + self.options.split_cost)
+                EdgeTerms {
+                    term: -(rule.cost + self.options.split_cost),
+                    bonus: None,
+                    divided: false,
+                }
             }
         }
+    }
+
+    /// The weight of an edge with these terms, for the current divisor.
+    fn of(&self, t: EdgeTerms) -> f64 {
+        let term = if t.divided {
+            t.term / self.divisor
+        } else {
+            t.term
+        };
+        match t.bonus {
+            Some(b) => term + b,
+            None => term,
+        }
+    }
+
+    /// Every edge's weight for the current divisor.
+    fn all(&self, terms: &[EdgeTerms]) -> Vec<f64> {
+        terms.iter().map(|&t| self.of(t)).collect()
     }
 }
 
@@ -351,21 +391,21 @@ fn collect_path(links: &[PathLink], mut link: Option<usize>) -> Vec<EdgeIndex> {
 }
 
 /// Best-first search for the `k` best paths under one layering.
+/// `w` is the weight of every edge.
 fn best_first(
     lattice: &Lattice,
-    weights: &Weights,
+    w: &[f64],
     layering: Layering,
     k: usize,
     max_pops: usize,
 ) -> (Vec<ScoredPath>, bool) {
     let order = topological(lattice);
     let g = &lattice.graph;
-    let w: Vec<f64> = g.edge_weights().map(|e| weights.of(e)).collect();
     let width = match layering {
         Layering::Free => 1,
         Layering::AtMost(p) | Layering::Exactly(p) => p + 1,
     };
-    let h = heuristic(lattice, order, &w, layering, width);
+    let h = heuristic(lattice, order, w, layering, width);
     let budget0 = match layering {
         Layering::Free => 0,
         Layering::AtMost(p) | Layering::Exactly(p) => p,
@@ -488,7 +528,13 @@ pub fn best(
             } else {
                 Layering::AtMost(limit)
             };
-            let (paths, cut) = best_first(lattice, &weights, layering, k, options.max_pops);
+            let terms: Vec<EdgeTerms> = lattice
+                .graph
+                .edge_weights()
+                .map(|e| weights.terms(e))
+                .collect();
+            let w = weights.all(&terms);
+            let (paths, cut) = best_first(lattice, &w, layering, k, options.max_pops);
             (paths, cut.then_some(Truncation::SearchSize))
         }
         Ranking::Frequency => {
@@ -499,10 +545,21 @@ pub fn best(
             }
             let mut all = Vec::new();
             let mut cut_any = false;
+            // What does not depend on the number of parts is computed once.
+            let terms: Vec<EdgeTerms> = if most > 0 {
+                lattice
+                    .graph
+                    .edge_weights()
+                    .map(|e| weights.terms(e))
+                    .collect()
+            } else {
+                Vec::new()
+            };
             for n in 1..=most {
                 weights.divisor = n as f64;
+                let w = weights.all(&terms);
                 let (paths, cut) =
-                    best_first(lattice, &weights, Layering::Exactly(n), k, options.max_pops);
+                    best_first(lattice, &w, Layering::Exactly(n), k, options.max_pops);
                 cut_any |= cut;
                 all.extend(paths);
             }
