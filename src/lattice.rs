@@ -481,7 +481,10 @@ pub fn build_with(
     let text = rules.normalizer.map(input);
     let chars = text.chars.clone();
     let n = chars.len();
-    let mut graph = DiGraph::new();
+    // Room for a typical lattice (about three nodes and four edges per
+    // character), so that building it rarely grows a vector.
+    let room = if n > options.max_input_chars { 0 } else { n };
+    let mut graph = DiGraph::with_capacity(3 * room + 2, 4 * room + 4);
     let start = graph.add_node(Node::Part {
         pos: 0,
         carried: String::new(),
@@ -511,7 +514,7 @@ pub fn build_with(
         rules,
         lexicon,
         options,
-        matches: Vec::new(),
+        matches: Vec::with_capacity(2 * room),
         match_start: Vec::with_capacity(n + 2),
         chars,
         original_upper,
@@ -520,7 +523,11 @@ pub fn build_with(
         joints: IntMap::default(),
         parts: IntMap::default(),
         parts_at: vec![Vec::new(); n + 1],
-        order_keys: vec![(0, 1), (usize::MAX, 3)],
+        order_keys: {
+            let mut keys = Vec::with_capacity(3 * room + 2);
+            keys.extend([(0, 1), (usize::MAX, 3)]);
+            keys
+        },
         start,
         end,
         min_part: options
@@ -529,7 +536,7 @@ pub fn build_with(
         truncated: None,
         stack: Vec::new(),
         walks: IntMap::default(),
-        found: Vec::new(),
+        found: Vec::with_capacity(2 * room),
         memo,
         key: String::new(),
     };
