@@ -329,6 +329,9 @@ class Tagger:
 # written in running text).  A second reading is kept when it is within
 # SECOND_MARGIN of the best one.
 SECOND_MARGIN = 3.0
+# The margin for an uninflected homograph of an inflected best reading
+# (weiß: finite verb of wissen -8.9, adjective -12.1).
+INFLECTED_SECOND_MARGIN = 4.0
 # A noun is a proper noun only when HanTa's proper-noun reading beats its
 # common-noun reading clearly.  Forms HanTa knows as both score within about
 # 5 of each other (Hof +0.2, Rose +1.6, Bad +2.6, Wolf +3.5, Mark -5.2);
@@ -546,6 +549,20 @@ class GermanTagger:
                 if groups[p][0] >= groups[best][0] - SECOND_MARGIN:
                     chosen.append(p)
                 break
+        # An inflected best reading (a finite verb, an inflected adjective)
+        # cannot be a compound member, so an uninflected homograph of
+        # another non-noun group is kept as well: weiß is a form of wissen
+        # and the adjective of Weißwein.
+        best_tag = groups[best][1].replace("(", "").replace(")", "")
+        if best != "noun" and best_tag.startswith(INFLECTED_TAGS):
+            for p in order:
+                if p in chosen or p in ("noun", "other"):
+                    continue
+                tag = groups[p][1].replace("(", "").replace(")", "")
+                if (groups[p][0] >= groups[best][0] - INFLECTED_SECOND_MARGIN
+                        and not tag.startswith(INFLECTED_TAGS)):
+                    chosen.append(p)
+                break
         out = []
         for pos in chosen:
             _, tag, _, word = groups[pos]
@@ -621,6 +638,21 @@ def with_lemma_reading(entry, lemmas):
     return (form, freq, readings + [noun], score)
 
 
+def nominalised_adjective(entry):
+    """A noun reading (without a lemma) of an inflected adjective form is a
+    nominalised adjective (die Zentrale, das Soziale, der Kranke); it is
+    tagged nominalised=yes.  As a first part such a form does not lose its
+    -e: Zentralbank is zentral + Bank, not Zentrale with its -e dropped
+    (the rule-set's subtraction rules need `left.nominalised != yes`); it
+    still takes the weak -n (Kranke + n + Haus)."""
+    form, freq, readings, score = entry
+    if not any(r["pos"] == "adj" and r.get("inflected") for r in readings):
+        return entry
+    out = [dict(r, nominalised=True) if r["pos"] == "noun" and not r.get("lemma") and not r.get("proper")
+           else r for r in readings]
+    return (form, freq, out, score)
+
+
 def reading_tags(r):
     tags = [f"pos={r['pos']}"]
     if r.get("proper"):
@@ -629,6 +661,8 @@ def reading_tags(r):
         tags.append(f"lemma={r['lemma']}")
     if r.get("inflected"):
         tags.append("inflected=yes")
+    if r.get("nominalised"):
+        tags.append("nominalised=yes")
     if r.get("lexicalised"):
         tags.append("lexicalised=yes")
     return tags
@@ -816,7 +850,7 @@ def build(lang, outdir, tag_cache=None):
         print(f"[{lang}] dropped {dropped.get('unknown', 0)} unknown short forms",
               file=sys.stderr, flush=True)
         nouns = noun_lemmas(kept)
-        tagged = [with_lemma_reading(e, nouns) for e in kept]
+        tagged = [nominalised_adjective(with_lemma_reading(e, nouns)) for e in kept]
     lexicalised = load_lexicalised(outdir if lang == "de" else None)
     if lexicalised:
         known_forms = {f for f, _, _, _ in tagged}

@@ -227,3 +227,24 @@ fn both_readings_of_an_ambiguous_compound_are_among_the_best_five() {
         }
     }
 }
+
+/// Homographs in the bundled lexicon: the adjective weiß beside the verb
+/// form (wissen), and nominalised adjectives (Zentrale, Kleine) that keep
+/// their -e as first parts but take the weak -n (Kranke + n + Haus).
+#[test]
+fn adjective_first_parts_are_read_as_adjectives() {
+    let rules = german();
+    let (lexicon, _) = Lexicon::for_rules(&rules, &[], true, false).expect("bundled lexicon");
+    let best = |word: &str| -> Vec<String> {
+        let rec = record(&rules, &lexicon, word);
+        rec.record.analyses[0]
+            .parts
+            .iter()
+            .map(|p| p.form.clone())
+            .collect()
+    };
+    assert_eq!(best("Weißwein"), ["weiß", "Wein"]);
+    assert_eq!(best("Zentralbank"), ["zentral", "Bank"]);
+    assert_eq!(best("Kleinstadt"), ["klein", "Stadt"]);
+    assert_eq!(best("Krankenhaus"), ["Kranke", "Haus"]);
+}
