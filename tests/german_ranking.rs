@@ -27,6 +27,16 @@ fn record(rules: &RuleSet, lexicon: &Lexicon, word: &str) -> TokenRecord {
     Analyzer::new(rules, lexicon).split_token(word, 10, 80)
 }
 
+/// Lexicon forms of the best analysis.
+fn best_forms(rules: &RuleSet, lexicon: &Lexicon, word: &str) -> Vec<String> {
+    let rec = record(rules, lexicon, word);
+    rec.record.analyses[0]
+        .parts
+        .iter()
+        .map(|p| p.form.clone())
+        .collect()
+}
+
 /// Lexicon forms of every analysis, best first.
 fn analyses(rules: &RuleSet, lexicon: &Lexicon, word: &str) -> Vec<Vec<String>> {
     record(rules, lexicon, word)
