@@ -671,11 +671,9 @@ def reading_tags(r):
 LEXICALISED_FILE = "german-lexicalised.txt"
 
 
-def load_lexicalised(outdir):
+def load_lexicalised():
     """Case-folded forms of lexicons/german-lexicalised.txt (a hand list, see
     its header), ß folded to ss as in the word list; empty without a file."""
-    if outdir is None:
-        return set()
     here = os.path.dirname(os.path.abspath(__file__))
     path = os.path.join(os.path.dirname(here), "lexicons", LEXICALISED_FILE)
     if not os.path.exists(path):
@@ -851,7 +849,7 @@ def build(lang, outdir, tag_cache=None):
               file=sys.stderr, flush=True)
         nouns = noun_lemmas(kept)
         tagged = [nominalised_adjective(with_lemma_reading(e, nouns)) for e in kept]
-    lexicalised = load_lexicalised(outdir if lang == "de" else None)
+    lexicalised = load_lexicalised() if lang == "de" else set()
     if lexicalised:
         known_forms = {f for f, _, _, _ in tagged}
         missing = sorted(w for w in lexicalised if w not in known_forms)

@@ -17,6 +17,12 @@ fn german() -> RuleSet {
     compile_named("german", &CompileOptions::default()).expect("the German rule-set compiles")
 }
 
+fn bundled(rules: &RuleSet) -> Lexicon {
+    Lexicon::for_rules(rules, &[], true, false)
+        .expect("bundled lexicon")
+        .0
+}
+
 fn lexicon(rules: &RuleSet, tsv: &str) -> Lexicon {
     let mut b = LexiconBuilder::new(&rules.normalizer);
     b.add_tsv("test.tsv", tsv.as_bytes()).expect("test lexicon");
@@ -165,15 +171,8 @@ fn the_attested_clause_parses_and_join_still_writes_every_form() {
 #[test]
 fn the_bundled_lexicon_spells_sharp_s_as_the_current_orthography_does() {
     let rules = german();
-    let (lexicon, _) = Lexicon::for_rules(&rules, &[], true, false).expect("bundled lexicon");
-    let best = |word: &str| -> Vec<String> {
-        let rec = record(&rules, &lexicon, word);
-        rec.record.analyses[0]
-            .parts
-            .iter()
-            .map(|p| p.form.clone())
-            .collect()
-    };
+    let lexicon = bundled(&rules);
+    let best = |word: &str| best_forms(&rules, &lexicon, word);
     // ß after a long vowel or diphthong (Straße, Fuß, groß) ...
     assert_eq!(best("Straßenbahn"), ["Straße", "Bahn"]);
     assert_eq!(best("Strassenbahn"), ["Straße", "Bahn"]);
@@ -187,7 +186,7 @@ fn the_bundled_lexicon_spells_sharp_s_as_the_current_orthography_does() {
 #[test]
 fn the_bundled_lexicon_keeps_lexicalised_words_and_their_forms_whole() {
     let rules = german();
-    let (lexicon, _) = Lexicon::for_rules(&rules, &[], true, false).expect("bundled lexicon");
+    let lexicon = bundled(&rules);
     for word in [
         "Hochzeit",
         "Maulwurf",
@@ -195,8 +194,7 @@ fn the_bundled_lexicon_keeps_lexicalised_words_and_their_forms_whole() {
         "Bäckereien",
         "Frühstücks",
     ] {
-        let rec = record(&rules, &lexicon, word);
-        assert_eq!(rec.record.analyses[0].parts.len(), 1, "{word}");
+        assert_eq!(best_forms(&rules, &lexicon, word).len(), 1, "{word}");
     }
 }
 
@@ -205,7 +203,7 @@ fn the_bundled_lexicon_keeps_lexicalised_words_and_their_forms_whole() {
 #[test]
 fn both_readings_of_an_ambiguous_compound_are_among_the_best_five() {
     let rules = german();
-    let (lexicon, _) = Lexicon::for_rules(&rules, &[], true, false).expect("bundled lexicon");
+    let lexicon = bundled(&rules);
     let cases: [(&str, [&[&str]; 2]); 4] = [
         ("Staubecken", [&["stau", "becken"], &["staub", "ecken"]]),
         (
@@ -222,12 +220,10 @@ fn both_readings_of_an_ambiguous_compound_are_among_the_best_five() {
         ),
     ];
     for (word, readings) in cases {
-        let top: Vec<Vec<String>> = record(&rules, &lexicon, word)
-            .record
-            .analyses
-            .iter()
+        let top: Vec<Vec<String>> = analyses(&rules, &lexicon, word)
+            .into_iter()
             .take(5)
-            .map(|a| a.parts.iter().map(|p| p.form.to_lowercase()).collect())
+            .map(|a| a.iter().map(|f| f.to_lowercase()).collect())
             .collect();
         for reading in readings {
             assert!(
@@ -244,15 +240,8 @@ fn both_readings_of_an_ambiguous_compound_are_among_the_best_five() {
 #[test]
 fn adjective_first_parts_are_read_as_adjectives() {
     let rules = german();
-    let (lexicon, _) = Lexicon::for_rules(&rules, &[], true, false).expect("bundled lexicon");
-    let best = |word: &str| -> Vec<String> {
-        let rec = record(&rules, &lexicon, word);
-        rec.record.analyses[0]
-            .parts
-            .iter()
-            .map(|p| p.form.clone())
-            .collect()
-    };
+    let lexicon = bundled(&rules);
+    let best = |word: &str| best_forms(&rules, &lexicon, word);
     assert_eq!(best("Weißwein"), ["weiß", "Wein"]);
     assert_eq!(best("Zentralbank"), ["zentral", "Bank"]);
     assert_eq!(best("Kleinstadt"), ["klein", "Stadt"]);
