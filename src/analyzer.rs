@@ -112,24 +112,89 @@ impl<'a> Analyzer<'a> {
 
     /// Analyses one input: exact count and the `top` best analyses, each verified.
     pub fn split(&self, input: &str, top: usize) -> SplitRecord {
+        let mut analyses = Vec::new();
+        let summary = self.split_streaming(input, top, |step| {
+            if let Streamed::Analysis(a) = step {
+                analyses.push(a);
+            }
+            Ok::<(), std::convert::Infallible>(())
+        });
+        let summary = match summary {
+            Ok(s) => s,
+            Err(never) => match never {},
+        };
+        SplitRecord {
+            input: input.to_string(),
+            count: summary.count,
+            truncated: summary.truncated,
+            reason: summary.reason,
+            analyses,
+            error: summary.error,
+        }
+    }
+
+    /// Analyses one input like [`split`](Self::split), handing each step to
+    /// `on` as soon as it is known instead of collecting a record: first
+    /// [`Streamed::Head`] (the exact count, computed before any analysis is
+    /// searched for), then each of the `limit` best analyses as the search
+    /// finds it ([`Streamed::Analysis`], rendered and verified exactly as in
+    /// the record), best first. The analyses are not kept, so `limit` may be
+    /// far larger than what fits in memory. Returns what the record would say
+    /// besides the analyses; an error from `on` stops the search and is
+    /// returned.
+    pub fn split_streaming<E>(
+        &self,
+        input: &str,
+        limit: usize,
+        mut on: impl FnMut(Streamed) -> Result<(), E>,
+    ) -> Result<SplitSummary, E> {
         let started = Instant::now();
         let lattice = self.lattice(input);
         let count = search::count(&lattice, self.search.max_parts);
+        let error = (lattice.truncated == Some(Truncation::InputLength))
+            .then(|| Truncation::InputLength.describe().to_string());
         // The time limit covers the ranked search too: when building the
         // lattice used it up, nothing is listed (the count is still exact
         // for the lattice built).
-        if self.timeout.is_some_and(|t| started.elapsed() > t) {
-            return self.record(input, &lattice, count, Vec::new(), Some(Truncation::Time));
-        }
-        let (paths, cut) = search::best(&lattice, self.rules, self.lexicon, &self.search, top);
-        let parts_cut = self.search.max_parts > 0 && search::count(&lattice, 0) > count;
-        let mut record = self.record(input, &lattice, count, paths, cut);
-        if parts_cut && record.reason.is_none() {
+        let timed_out = self.timeout.is_some_and(|t| started.elapsed() > t);
+        let parts_cut =
+            !timed_out && self.search.max_parts > 0 && search::count(&lattice, 0) > count;
+        let expected = lattice
+            .truncated
+            .or(timed_out.then_some(Truncation::Time))
+            .or_else(|| (BigUint::from(limit) < count).then_some(Truncation::Limit))
+            .or(parts_cut.then_some(Truncation::Parts));
+        on(Streamed::Head(SplitHead {
+            count: Count(count.clone()),
+            reason: expected,
+            error: error.clone(),
+        }))?;
+        let mut listed = 0usize;
+        let cut = if timed_out {
+            Some(Truncation::Time)
+        } else {
+            let normalized = lattice.text.normalized();
+            let mut ranked = search::paths(&lattice, self.rules, self.lexicon, &self.search);
+            for (i, path) in ranked.by_ref().take(limit).enumerate() {
+                if let Some(a) = self.verified(input, &lattice, &normalized, &path, i + 1) {
+                    listed += 1;
+                    on(Streamed::Analysis(a))?;
+                }
+            }
+            ranked.truncation()
+        };
+        let mut reason = Self::reason(&lattice, cut, listed, &count);
+        if parts_cut && reason.is_none() {
             // Only analyses within the part limit are counted and listed.
-            record.truncated = true;
-            record.reason = Some(Truncation::Parts);
+            reason = Some(Truncation::Parts);
         }
-        record
+        Ok(SplitSummary {
+            count: Count(count),
+            listed,
+            truncated: reason.is_some(),
+            reason,
+            error,
+        })
     }
 
     /// The greedy longest-match segmentation (a baseline): at each position
@@ -212,16 +277,9 @@ impl<'a> Analyzer<'a> {
         let mut analyses = Vec::with_capacity(paths.len());
         let normalized = lattice.text.normalized();
         for (i, p) in paths.iter().enumerate() {
-            let a = proof::analysis(lattice, self.rules, self.lexicon, p, i + 1);
-            match proof::verify_normalized(self.rules, &a, &normalized) {
-                Ok(()) => analyses.push(a),
-                Err(e) => debug_assert!(false, "analysis of {input:?} failed verification: {e}"),
-            }
+            analyses.extend(self.verified(input, lattice, &normalized, p, i + 1));
         }
-        let reason = lattice
-            .truncated
-            .or(cut)
-            .or_else(|| (BigUint::from(analyses.len()) < count).then_some(Truncation::Limit));
+        let reason = Self::reason(lattice, cut, analyses.len(), &count);
         let error = (lattice.truncated == Some(Truncation::InputLength))
             .then(|| Truncation::InputLength.describe().to_string());
         SplitRecord {
@@ -232,6 +290,101 @@ impl<'a> Analyzer<'a> {
             analyses,
             error,
         }
+    }
+
+    /// The analysis of a path with rank `rank`, if it verifies (forward, on
+    /// the normalized input); debug builds assert that it does.
+    fn verified(
+        &self,
+        input: &str,
+        lattice: &lattice::Lattice,
+        normalized: &str,
+        path: &ScoredPath,
+        rank: usize,
+    ) -> Option<Analysis> {
+        let a = proof::analysis(lattice, self.rules, self.lexicon, path, rank);
+        match proof::verify_normalized(self.rules, &a, normalized) {
+            Ok(()) => Some(a),
+            Err(e) => {
+                debug_assert!(false, "analysis of {input:?} failed verification: {e}");
+                None
+            }
+        }
+    }
+
+    /// Why a listing of `listed` analyses out of `count` is incomplete: a
+    /// limit of the lattice, then one of the search (`cut`), then the number
+    /// listed.
+    fn reason(
+        lattice: &lattice::Lattice,
+        cut: Option<Truncation>,
+        listed: usize,
+        count: &BigUint,
+    ) -> Option<Truncation> {
+        lattice
+            .truncated
+            .or(cut)
+            .or_else(|| (BigUint::from(listed) < *count).then_some(Truncation::Limit))
+    }
+}
+
+/// One step of [`Analyzer::split_streaming`].
+#[derive(Debug, Clone)]
+pub enum Streamed {
+    /// What is known before the search: comes first, once.
+    Head(SplitHead),
+    /// The next analysis, best first.
+    Analysis(Analysis),
+}
+
+/// The start of a streamed split: what is known before any analysis.
+#[derive(Debug, Clone)]
+pub struct SplitHead {
+    /// Exact number of analyses.
+    pub count: Count,
+    /// The reason the listing will be incomplete as far as it is known
+    /// before the search: a limit of the lattice (or the time it took), the
+    /// number asked for being below the count, or the part limit. The
+    /// [`SplitSummary`] has the final word (the ranked search may still reach
+    /// its work limit).
+    pub reason: Option<Truncation>,
+    /// Set when the line could not be analysed at all.
+    pub error: Option<String>,
+}
+
+/// The end of a streamed split: the record's fields besides its analyses.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct SplitSummary {
+    /// Exact number of analyses.
+    pub count: Count,
+    /// How many analyses were listed.
+    pub listed: usize,
+    /// Whether fewer analyses are listed than exist, or the search was cut.
+    pub truncated: bool,
+    /// Why, when truncated.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub reason: Option<Truncation>,
+    /// Set when the line could not be analysed at all.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub error: Option<String>,
+}
+
+impl SplitSummary {
+    /// The summary of a complete record.
+    pub fn of(record: &SplitRecord) -> SplitSummary {
+        SplitSummary {
+            count: record.count.clone(),
+            listed: record.analyses.len(),
+            truncated: record.truncated,
+            reason: record.reason,
+            error: record.error.clone(),
+        }
+    }
+
+    /// Whether the line counts as not analysed (for the exit status), as
+    /// [`SplitRecord::is_failure`].
+    pub fn is_failure(&self) -> bool {
+        self.error.is_some() || self.listed == 0
     }
 }
 

@@ -2,8 +2,10 @@
 //! proof chain; `jsonl` one JSON object per input line; `json` a JSON array;
 //! `yaml` a YAML sequence; `tsv` one line per input.
 
-use crate::analyzer::SplitRecord;
-use crate::proof::{Analysis, JoinResult};
+use crate::analyzer::{Count, Passthrough, SplitHead, SplitRecord, SplitSummary};
+use crate::lattice::Truncation;
+use crate::proof::{Analysis, JoinResult, Junction, Part};
+use serde::Serialize;
 use std::fmt::Write;
 
 /// Output formats.
@@ -51,15 +53,20 @@ pub fn analysis_text(a: &Analysis, out: &mut String) {
     }
 }
 
-/// A split record as text.
-pub fn split_text(r: &SplitRecord) -> String {
-    let mut out = String::new();
-    let noun = if r.count.0 == 1u32.into() {
+/// The first line of a split in text, `INPUT: COUNT analyses`, without its end.
+fn count_line(input: &str, count: &Count, out: &mut String) {
+    let noun = if count.0 == 1u32.into() {
         "analysis"
     } else {
         "analyses"
     };
-    let _ = write!(out, "{}: {} {}", r.input, r.count, noun);
+    let _ = write!(out, "{input}: {count} {noun}");
+}
+
+/// A split record as text.
+pub fn split_text(r: &SplitRecord) -> String {
+    let mut out = String::new();
+    count_line(&r.input, &r.count, &mut out);
     if let Some(reason) = r.reason {
         if !r.analyses.is_empty() || r.error.is_none() {
             let _ = write!(out, " ({} shown; {})", r.analyses.len(), reason.describe());
@@ -75,43 +82,230 @@ pub fn split_text(r: &SplitRecord) -> String {
     out
 }
 
+fn tsv_clean(s: &str) -> String {
+    s.replace(['\t', '\n', '\r'], " ")
+}
+
+/// The TSV column naming a limit that cut a split, `truncated: REASON`.
+fn tsv_truncated(reason: Truncation) -> String {
+    format!(
+        "truncated: {}",
+        serde_json::to_value(reason)
+            .ok()
+            .and_then(|v| v.as_str().map(str::to_string))
+            .unwrap_or_default()
+    )
+}
+
+/// The columns of a split in TSV before its analyses: input, count, then
+/// `error: …` or `truncated: REASON` when a limit other than the number
+/// listed cut it; each column after a tab but the first.
+fn tsv_head(input: &str, count: &Count, error: Option<&str>, reason: Option<Truncation>) -> String {
+    let mut out = format!("{}\t{}", tsv_clean(input), count);
+    if let Some(e) = error {
+        out.push_str("\terror: ");
+        out.push_str(&tsv_clean(e));
+    } else if let Some(reason) = reason.filter(|&x| x != Truncation::Limit) {
+        // A limit other than the number listed cut the search: say which,
+        // in the same place an error would stand.
+        out.push('\t');
+        out.push_str(&tsv_truncated(reason));
+    }
+    out
+}
+
+/// One analysis as TSV columns, each after a tab: the parts joined by `+`,
+/// the rules joined by `,`, and the score.
+pub fn analysis_tsv(a: &Analysis, out: &mut String) {
+    out.push('\t');
+    let parts: Vec<String> = a.parts.iter().map(|p| tsv_clean(&p.form)).collect();
+    out.push_str(&parts.join("+"));
+    out.push('\t');
+    let rules: Vec<&str> = a.junctions.iter().map(|j| j.rule.as_str()).collect();
+    out.push_str(&rules.join(","));
+    let _ = write!(out, "\t{}", a.score);
+}
+
 /// A split record as one TSV line: input, count, then `error: …` or
 /// `truncated: REASON` when a limit other than the number listed cut it, then
 /// for each analysis the parts joined by `+`, the rules joined by `,`, and the score.
 pub fn split_tsv(r: &SplitRecord) -> String {
-    let clean = |s: &str| s.replace(['\t', '\n', '\r'], " ");
-    let mut cols = vec![clean(&r.input), r.count.to_string()];
-    if let Some(e) = &r.error {
-        cols.push(format!("error: {}", clean(e)));
-    } else if let Some(reason) = r.reason.filter(|&x| x != crate::lattice::Truncation::Limit) {
-        // A limit other than the number listed cut the search: say which,
-        // in the same place an error would stand.
-        cols.push(format!(
-            "truncated: {}",
-            serde_json::to_value(reason)
-                .ok()
-                .and_then(|v| v.as_str().map(str::to_string))
-                .unwrap_or_default()
-        ));
-    }
+    let mut out = tsv_head(&r.input, &r.count, r.error.as_deref(), r.reason);
     for a in &r.analyses {
-        cols.push(
-            a.parts
-                .iter()
-                .map(|p| clean(&p.form))
-                .collect::<Vec<_>>()
-                .join("+"),
-        );
-        cols.push(
-            a.junctions
-                .iter()
-                .map(|j| j.rule.clone())
-                .collect::<Vec<_>>()
-                .join(","),
-        );
-        cols.push(a.score.to_string());
+        analysis_tsv(a, &mut out);
     }
-    cols.join("\t") + "\n"
+    out.push('\n');
+    out
+}
+
+/// The streamed layout of `split --all` (text, JSONL and TSV), written one
+/// piece at a time: [`head`](Self::head) before the search, then
+/// [`analysis`](Self::analysis) for each analysis as it is found, then
+/// [`end`](Self::end) with the summary. Without `--all` the record formats
+/// ([`split_text`], [`split_tsv`], the record as JSON) are used instead.
+///
+/// - **text**: the record's first line without the `(N shown; …)` note, the
+///   `error:` line if any, each analysis as in the record, and last, when the
+///   listing is incomplete, the note on a line of its own:
+///   `  (N shown; REASON)`.
+/// - **jsonl**: one object per analysis, `{"input", "rank", "score",
+///   "parts", "junctions"}` (the record's analysis with its input), then one
+///   trailer object per input, `{"input", "count", "listed", "truncated",
+///   "reason"?, "error"?}` (see [`StreamedEnd`]). An object with `listed`
+///   ends the input; a line without analyses has the trailer only.
+/// - **tsv**: one line per input as in the record, written column by column;
+///   a limit known only after the search (`search-size`) is named in a last
+///   column instead of the third.
+#[derive(Debug, Clone)]
+pub struct Streamer<'a> {
+    format: Format,
+    input: &'a str,
+    head_reason: Option<Truncation>,
+}
+
+/// A streamed analysis in JSONL: the record's analysis with its input.
+#[derive(Debug, Serialize)]
+pub struct StreamedAnalysis<'a> {
+    /// The input line as given.
+    pub input: &'a str,
+    /// 1-based rank.
+    pub rank: usize,
+    /// Score.
+    pub score: f64,
+    /// Parts, left to right.
+    pub parts: &'a [Part],
+    /// Junctions between consecutive parts.
+    pub junctions: &'a [Junction],
+}
+
+/// The trailer of a streamed split in JSONL: what the record says besides
+/// its analyses.
+#[derive(Debug, Serialize)]
+pub struct StreamedEnd<'a> {
+    /// The input line as given.
+    pub input: &'a str,
+    /// Count, number listed, truncation and error.
+    #[serde(flatten)]
+    pub summary: &'a SplitSummary,
+    /// Why the token was not analysed (`--passthrough`).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub passthrough: Option<Passthrough>,
+    /// The script read, the script written and the transliteration
+    /// analysed, for a rule-set with a script (as in the record).
+    #[serde(flatten, skip_serializing_if = "Option::is_none")]
+    pub reading: Option<StreamedReading<'a>>,
+}
+
+/// The script fields of a streamed trailer.
+#[derive(Debug, Serialize)]
+pub struct StreamedReading<'a> {
+    /// The script the input was read in.
+    pub script: &'static str,
+    /// The script of forms and surfaces.
+    pub output_script: &'static str,
+    /// The input in the rule-set's script; offsets count its characters.
+    pub transliteration: &'a str,
+}
+
+impl<'a> Streamer<'a> {
+    /// A streamed listing of `input` in `format` (text, JSONL or TSV).
+    pub fn new(format: Format, input: &'a str) -> Self {
+        Streamer {
+            format,
+            input,
+            head_reason: None,
+        }
+    }
+
+    /// What comes before the first analysis. `transliteration` (text only)
+    /// adds the `read as SCRIPT: …` line of a rule-set with a script.
+    pub fn head(&mut self, head: &SplitHead, transliteration: Option<(&str, &str)>) -> String {
+        self.head_reason = head.reason;
+        match self.format {
+            Format::Text => {
+                let mut out = String::new();
+                count_line(self.input, &head.count, &mut out);
+                out.push('\n');
+                if let Some((script, text)) = transliteration.filter(|(_, t)| *t != self.input) {
+                    let _ = writeln!(out, "  read as {script}: {text}");
+                }
+                if let Some(e) = &head.error {
+                    let _ = writeln!(out, "  error: {e}");
+                }
+                out
+            }
+            Format::Tsv => tsv_head(self.input, &head.count, head.error.as_deref(), head.reason),
+            _ => String::new(),
+        }
+    }
+
+    /// One analysis.
+    pub fn analysis(&self, a: &Analysis) -> String {
+        let mut out = String::new();
+        match self.format {
+            Format::Text => analysis_text(a, &mut out),
+            Format::Tsv => analysis_tsv(a, &mut out),
+            _ => {
+                let line = StreamedAnalysis {
+                    input: self.input,
+                    rank: a.rank,
+                    score: a.score,
+                    parts: &a.parts,
+                    junctions: &a.junctions,
+                };
+                out = serde_json::to_string(&line)
+                    .unwrap_or_else(|e| format!("{{\"error\":\"{e}\"}}"));
+                out.push('\n');
+            }
+        }
+        out
+    }
+
+    /// What comes after the last analysis. `passthrough` and `reading` go
+    /// into the JSONL trailer; `passthrough` also gives the text line
+    /// `passed through: …`.
+    pub fn end(
+        &self,
+        summary: &SplitSummary,
+        passthrough: Option<Passthrough>,
+        reading: Option<StreamedReading<'_>>,
+    ) -> String {
+        let mut out = String::new();
+        match self.format {
+            Format::Text => {
+                if let Some(reason) = summary.reason {
+                    if summary.listed > 0 || summary.error.is_none() {
+                        let _ =
+                            writeln!(out, "  ({} shown; {})", summary.listed, reason.describe());
+                    }
+                }
+                if let Some(p) = passthrough {
+                    let _ = writeln!(out, "  passed through: {}", p.describe());
+                }
+            }
+            Format::Tsv => {
+                let shown = self.head_reason.filter(|&x| x != Truncation::Limit);
+                let late = summary.reason.filter(|&x| x != Truncation::Limit);
+                if late.is_some() && late != shown && summary.error.is_none() {
+                    out.push('\t');
+                    out.push_str(&tsv_truncated(late.unwrap_or(Truncation::SearchSize)));
+                }
+                out.push('\n');
+            }
+            _ => {
+                let end = StreamedEnd {
+                    input: self.input,
+                    summary,
+                    passthrough,
+                    reading,
+                };
+                out = serde_json::to_string(&end)
+                    .unwrap_or_else(|e| format!("{{\"error\":\"{e}\"}}"));
+                out.push('\n');
+            }
+        }
+        out
+    }
 }
 
 /// A join result as text.

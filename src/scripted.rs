@@ -19,7 +19,7 @@
 //! the rule-set's script.
 
 use crate::analyzer::SplitRecord;
-use crate::proof::Junction;
+use crate::proof::{Analysis, Junction};
 use crate::rules::{RuleSet, Separator};
 use crate::script::{self, Script};
 use serde::Serialize;
@@ -50,6 +50,56 @@ pub fn rules_script(rules: &RuleSet) -> Option<Script> {
     rules.settings.script.as_deref().and_then(Script::from_name)
 }
 
+/// How one input is read: the script it was read in (given, or detected),
+/// the script of forms and surfaces in the output, and the transliteration
+/// into the rule-set's script that is analysed. [`split_with`] applies it
+/// around a whole record; a streamed split (`split --all`) converts each
+/// analysis as it comes with [`Reading::convert`].
+#[derive(Debug, Clone)]
+pub struct Reading {
+    /// The script the input was read in.
+    pub from: Script,
+    /// The script of forms and surfaces in the output.
+    pub to: Script,
+    /// The rule-set's script.
+    pub analysed: Script,
+    /// The input in the rule-set's script: what is analysed.
+    pub text: String,
+}
+
+impl Reading {
+    /// Reads `input` from `from` (detected when `None`) into `analysed`, to
+    /// be written in `to` (the input's script when `None`).
+    pub fn new(input: &str, from: Option<Script>, analysed: Script, to: Option<Script>) -> Reading {
+        let from = from.unwrap_or_else(|| script::detect(input));
+        let to = to.unwrap_or(from);
+        let text = script::transliterate(input, from, analysed);
+        Reading {
+            from,
+            to,
+            analysed,
+            text,
+        }
+    }
+
+    /// Writes an analysis's forms and surfaces in the output script.
+    pub fn convert(&self, a: &mut Analysis) {
+        if self.to == self.analysed {
+            return;
+        }
+        let conv = |s: &str| script::transliterate(s, self.analysed, self.to);
+        for p in &mut a.parts {
+            p.form = conv(&p.form);
+            p.surface = conv(&p.surface);
+        }
+        for j in &mut a.junctions {
+            j.left = conv(&j.left);
+            j.right = conv(&j.right);
+            convert_surface(j, &conv);
+        }
+    }
+}
+
 /// Transliterates `input` from `from` (detected when `None`) into `analysed`
 /// (the rule-set's script), analyses it with `split`, and converts forms and
 /// surfaces into `to` (the input's script when `None`).
@@ -60,30 +110,17 @@ pub fn split_with(
     to: Option<Script>,
     split: impl FnOnce(&str) -> SplitRecord,
 ) -> ScriptedRecord {
-    let from = from.unwrap_or_else(|| script::detect(input));
-    let to = to.unwrap_or(from);
-    let text = script::transliterate(input, from, analysed);
-    let mut record = split(&text);
+    let reading = Reading::new(input, from, analysed, to);
+    let mut record = split(&reading.text);
     record.input = input.to_string();
-    if to != analysed {
-        let conv = |s: &str| script::transliterate(s, analysed, to);
-        for a in &mut record.analyses {
-            for p in &mut a.parts {
-                p.form = conv(&p.form);
-                p.surface = conv(&p.surface);
-            }
-            for j in &mut a.junctions {
-                j.left = conv(&j.left);
-                j.right = conv(&j.right);
-                convert_surface(j, &conv);
-            }
-        }
+    for a in &mut record.analyses {
+        reading.convert(a);
     }
     ScriptedRecord {
         record,
-        script: from.name(),
-        output_script: to.name(),
-        transliteration: text,
+        script: reading.from.name(),
+        output_script: reading.to.name(),
+        transliteration: reading.text,
     }
 }
 

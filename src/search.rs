@@ -1,5 +1,6 @@
 //! Search stage: exact counting of analyses by dynamic programming on the
-//! lattice, and best-first enumeration of the k best analyses.
+//! lattice, and lazy best-first enumeration of the analyses in rank order
+//! ([`paths`]; [`best`] takes the first k).
 //!
 //! Counting never enumerates paths: it sums path counts over the DAG in
 //! reverse topological order with arbitrary-precision integers.
@@ -7,12 +8,15 @@
 //! Ranking uses an exact heuristic: for every node the best score of any
 //! completion is computed first, so a best-first (A*) search pops complete
 //! analyses in score order and only ever expands partial paths that can lead
-//! to one of the k best. Nothing close to the full set of paths is built.
+//! to one of the k best. Nothing close to the full set of paths is built:
+//! [`paths`] is an iterator that searches only as far as the next analysis
+//! asked for, so `split --all` can write each analysis as it is found.
 //!
 //! The **frequency** model (Koehn & Knight 2003) scores an analysis of `n`
 //! parts by the geometric mean of the part frequencies, `(1/n) Σ ln f_i`, minus
 //! the costs of its junction rules. Because the mean depends on `n`, the search
-//! runs once per `n` (exactly `n` parts) and merges the results. The
+//! runs once per `n` (exactly `n` parts) and the searches are merged lazily
+//! on their next analyses (each comes out best first). The
 //! **probability** model scores `Σ ln p_i − Σ cost(r_j) − n · part-cost`, with
 //! `p_i` the add-one smoothed relative frequency of the part.
 
@@ -390,98 +394,130 @@ fn collect_path(links: &[PathLink], mut link: Option<usize>) -> Vec<EdgeIndex> {
     edges
 }
 
-/// Best-first search for the `k` best paths under one layering.
-/// `w` is the weight of every edge.
-fn best_first(
-    lattice: &Lattice,
-    w: &[f64],
+/// Best-first search under one layering: one complete path per `next()`,
+/// best first, expanding only what the next path needs. `w` is the weight of
+/// every edge. After `max_pops` pops the search stops (`cut`) and yields
+/// nothing more.
+struct BestFirst<'l> {
+    lattice: &'l Lattice,
+    w: Vec<f64>,
+    h: Vec<f64>,
     layering: Layering,
-    k: usize,
+    width: usize,
+    heap: BinaryHeap<Item>,
+    links: Vec<PathLink>,
+    seq: u64,
+    pops: usize,
     max_pops: usize,
-) -> (Vec<ScoredPath>, bool) {
-    let order = topological(lattice);
-    let g = &lattice.graph;
-    let width = match layering {
-        Layering::Free => 1,
-        Layering::AtMost(p) | Layering::Exactly(p) => p + 1,
-    };
-    let h = heuristic(lattice, order, w, layering, width);
-    let budget0 = match layering {
-        Layering::Free => 0,
-        Layering::AtMost(p) | Layering::Exactly(p) => p,
-    };
-    let hv = |node: NodeIndex, budget: usize| -> f64 {
-        match layering {
-            Layering::Free => h[node.index()],
-            _ => h[node.index() * width + budget],
-        }
-    };
-    let mut out = Vec::new();
-    let start_h = hv(lattice.start, budget0);
-    if !start_h.is_finite() || k == 0 {
-        return (out, false);
+    cut: bool,
+}
+
+/// The best completion score from `node` with `budget` parts left.
+fn completion(h: &[f64], layering: Layering, width: usize, node: NodeIndex, budget: usize) -> f64 {
+    match layering {
+        Layering::Free => h[node.index()],
+        _ => h[node.index() * width + budget],
     }
-    let mut heap = BinaryHeap::new();
-    let mut links: Vec<PathLink> = Vec::new();
-    let mut seq = 0u64;
-    heap.push(Item {
-        priority: start_h,
-        seq,
-        g: 0.0,
-        node: lattice.start,
-        budget: budget0,
-        parts: 0,
-        path: None,
-    });
-    let mut pops = 0usize;
-    while let Some(item) = heap.pop() {
-        pops += 1;
-        if pops > max_pops {
-            return (out, true);
-        }
-        if item.node == lattice.end {
-            out.push(ScoredPath {
-                edges: collect_path(&links, item.path),
-                score: item.g,
-                parts: item.parts,
-            });
-            if out.len() >= k {
-                break;
-            }
-            continue;
-        }
-        for e in g.edges_directed(item.node, Direction::Outgoing) {
-            let is_word = matches!(e.weight(), Edge::Word(_));
-            let budget = match layering {
-                Layering::Free => 0,
-                _ if is_word => match item.budget.checked_sub(1) {
-                    Some(b) => b,
-                    None => continue,
-                },
-                _ => item.budget,
-            };
-            let rest = hv(e.target(), budget);
-            if !rest.is_finite() {
-                continue;
-            }
-            let gnew = item.g + w[e.id().index()];
-            seq += 1;
-            links.push(PathLink {
-                edge: e.id(),
-                prev: item.path,
-            });
+}
+
+impl<'l> BestFirst<'l> {
+    fn new(lattice: &'l Lattice, w: Vec<f64>, layering: Layering, max_pops: usize) -> Self {
+        let order = topological(lattice);
+        let width = match layering {
+            Layering::Free => 1,
+            Layering::AtMost(p) | Layering::Exactly(p) => p + 1,
+        };
+        let h = heuristic(lattice, order, &w, layering, width);
+        let budget0 = match layering {
+            Layering::Free => 0,
+            Layering::AtMost(p) | Layering::Exactly(p) => p,
+        };
+        let mut heap = BinaryHeap::new();
+        let start_h = completion(&h, layering, width, lattice.start, budget0);
+        if start_h.is_finite() {
             heap.push(Item {
-                priority: gnew + rest,
-                seq,
-                g: gnew,
-                node: e.target(),
-                budget,
-                parts: item.parts + usize::from(is_word),
-                path: Some(links.len() - 1),
+                priority: start_h,
+                seq: 0,
+                g: 0.0,
+                node: lattice.start,
+                budget: budget0,
+                parts: 0,
+                path: None,
             });
         }
+        BestFirst {
+            lattice,
+            w,
+            h,
+            layering,
+            width,
+            heap,
+            links: Vec::new(),
+            seq: 0,
+            pops: 0,
+            max_pops,
+            cut: false,
+        }
     }
-    (out, false)
+}
+
+impl Iterator for BestFirst<'_> {
+    type Item = ScoredPath;
+
+    fn next(&mut self) -> Option<ScoredPath> {
+        if self.cut {
+            return None;
+        }
+        let lattice = self.lattice;
+        let g = &lattice.graph;
+        let (layering, width) = (self.layering, self.width);
+        while let Some(item) = self.heap.pop() {
+            self.pops += 1;
+            if self.pops > self.max_pops {
+                self.cut = true;
+                self.heap.clear();
+                return None;
+            }
+            if item.node == lattice.end {
+                return Some(ScoredPath {
+                    edges: collect_path(&self.links, item.path),
+                    score: item.g,
+                    parts: item.parts,
+                });
+            }
+            for e in g.edges_directed(item.node, Direction::Outgoing) {
+                let is_word = matches!(e.weight(), Edge::Word(_));
+                let budget = match layering {
+                    Layering::Free => 0,
+                    _ if is_word => match item.budget.checked_sub(1) {
+                        Some(b) => b,
+                        None => continue,
+                    },
+                    _ => item.budget,
+                };
+                let rest = completion(&self.h, layering, width, e.target(), budget);
+                if !rest.is_finite() {
+                    continue;
+                }
+                let gnew = item.g + self.w[e.id().index()];
+                self.seq += 1;
+                self.links.push(PathLink {
+                    edge: e.id(),
+                    prev: item.path,
+                });
+                self.heap.push(Item {
+                    priority: gnew + rest,
+                    seq: self.seq,
+                    g: gnew,
+                    node: e.target(),
+                    budget,
+                    parts: item.parts + usize::from(is_word),
+                    path: Some(self.links.len() - 1),
+                });
+            }
+        }
+        None
+    }
 }
 
 /// Most parts on any path (for the per-`n` runs of the frequency model).
@@ -505,22 +541,89 @@ fn max_parts_on_paths(lattice: &Lattice, order: &[NodeIndex]) -> usize {
     best[lattice.start.index()].unwrap_or(0)
 }
 
-/// The `k` best analyses, best first. The second value is set when the
-/// search stopped at its work limit.
-pub fn best(
-    lattice: &Lattice,
+/// Every analysis of a lattice, best first, found lazily: each `next()`
+/// runs the best-first search only as far as the next path needs, so taking
+/// the first few of astronomically many analyses costs no more than
+/// [`best`] with a small `k`. Made by [`paths`].
+///
+/// Under the probability model this is one search. Under the frequency model
+/// it is one search per number of parts `n` (exactly `n` parts, as the score
+/// divides by `n`), merged on their next paths: highest score first, on equal
+/// scores the one with fewer parts, and within one `n` the search's own order
+/// (edge order breaks ties). Each per-`n` search is advanced only when its
+/// next path is needed.
+///
+/// Each search stops after `max_pops` pops ([`SearchOptions::max_pops`]);
+/// then it yields nothing more, and [`truncation`](Self::truncation) says so.
+pub struct RankedPaths<'l> {
+    /// One search per layering (per `n`, fewest parts first, for frequency).
+    streams: Vec<BestFirst<'l>>,
+    /// The next path of each search, once asked for.
+    heads: Vec<Option<ScoredPath>>,
+    /// The search whose path was taken last: it is advanced before the next
+    /// comparison, not before (so nothing is searched that is not asked for).
+    taken: Option<usize>,
+    started: bool,
+}
+
+impl RankedPaths<'_> {
+    /// `Some(Truncation::SearchSize)` when a search stopped at its work limit
+    /// while a path was being looked for: paths beyond the ones yielded may
+    /// be missing. Meaningful once the iterator has given what was wanted.
+    pub fn truncation(&self) -> Option<Truncation> {
+        self.streams
+            .iter()
+            .any(|s| s.cut)
+            .then_some(Truncation::SearchSize)
+    }
+
+    /// Partial paths popped so far, over all searches (the work done).
+    pub fn pops(&self) -> usize {
+        self.streams.iter().map(|s| s.pops).sum()
+    }
+}
+
+impl Iterator for RankedPaths<'_> {
+    type Item = ScoredPath;
+
+    fn next(&mut self) -> Option<ScoredPath> {
+        if !self.started {
+            self.started = true;
+            self.heads = self.streams.iter_mut().map(Iterator::next).collect();
+        } else if let Some(i) = self.taken.take() {
+            self.heads[i] = self.streams[i].next();
+        }
+        // The best head; on equal scores the first, i.e. the fewest parts.
+        let mut best: Option<(usize, f64)> = None;
+        for (i, head) in self.heads.iter().enumerate() {
+            if let Some(p) = head {
+                if best.is_none_or(|(_, s)| p.score.total_cmp(&s) == Ordering::Greater) {
+                    best = Some((i, p.score));
+                }
+            }
+        }
+        let (i, _) = best?;
+        self.taken = Some(i);
+        self.heads[i].take()
+    }
+}
+
+/// Every analysis of `lattice`, best first, as a lazy iterator (see
+/// [`RankedPaths`]). The heuristic of each search is computed here; paths
+/// are searched for as they are asked for.
+pub fn paths<'l>(
+    lattice: &'l Lattice,
     rules: &RuleSet,
     lexicon: &Lexicon,
     options: &SearchOptions,
-    k: usize,
-) -> (Vec<ScoredPath>, Option<Truncation>) {
+) -> RankedPaths<'l> {
     let mut weights = Weights {
         rules,
         lexicon,
         options,
         divisor: 1.0,
     };
-    match options.ranking {
+    let streams = match options.ranking {
         Ranking::Probability => {
             let limit = part_limit(lattice, topological(lattice), options.max_parts);
             let layering = if limit == 0 {
@@ -534,8 +637,7 @@ pub fn best(
                 .map(|e| weights.terms(e))
                 .collect();
             let w = weights.all(&terms);
-            let (paths, cut) = best_first(lattice, &w, layering, k, options.max_pops);
-            (paths, cut.then_some(Truncation::SearchSize))
+            vec![BestFirst::new(lattice, w, layering, options.max_pops)]
         }
         Ranking::Frequency => {
             let order = topological(lattice);
@@ -543,8 +645,6 @@ pub fn best(
             if options.max_parts > 0 {
                 most = most.min(options.max_parts);
             }
-            let mut all = Vec::new();
-            let mut cut_any = false;
             // What does not depend on the number of parts is computed once.
             let terms: Vec<EdgeTerms> = if most > 0 {
                 lattice
@@ -555,19 +655,35 @@ pub fn best(
             } else {
                 Vec::new()
             };
-            for n in 1..=most {
-                weights.divisor = n as f64;
-                let w = weights.all(&terms);
-                let (paths, cut) =
-                    best_first(lattice, &w, Layering::Exactly(n), k, options.max_pops);
-                cut_any |= cut;
-                all.extend(paths);
-            }
-            all.sort_by(|a, b| b.score.total_cmp(&a.score).then(a.parts.cmp(&b.parts)));
-            all.truncate(k);
-            (all, cut_any.then_some(Truncation::SearchSize))
+            (1..=most)
+                .map(|n| {
+                    weights.divisor = n as f64;
+                    let w = weights.all(&terms);
+                    BestFirst::new(lattice, w, Layering::Exactly(n), options.max_pops)
+                })
+                .collect()
         }
+    };
+    RankedPaths {
+        streams,
+        heads: Vec::new(),
+        taken: None,
+        started: false,
     }
+}
+
+/// The `k` best analyses, best first: the first `k` of [`paths`]. The second
+/// value is set when a search stopped at its work limit.
+pub fn best(
+    lattice: &Lattice,
+    rules: &RuleSet,
+    lexicon: &Lexicon,
+    options: &SearchOptions,
+    k: usize,
+) -> (Vec<ScoredPath>, Option<Truncation>) {
+    let mut ranked = paths(lattice, rules, lexicon, options);
+    let found: Vec<ScoredPath> = ranked.by_ref().take(k).collect();
+    (found, ranked.truncation())
 }
 
 #[cfg(test)]
