@@ -15,6 +15,10 @@
 //! Run: `cargo bench --bench split` (set JUNCTURE_BENCH_TOKENS to change the
 //! stream length; default 1,000,000 tokens, with 100,000 distinct compound types).
 
+/// The allocator of the `juncture` binary, so that the numbers are the CLI's.
+#[global_allocator]
+static ALLOCATOR: mimalloc::MiMalloc = mimalloc::MiMalloc;
+
 use criterion::{black_box, criterion_group, criterion_main, Criterion, Throughput};
 use juncture::analyzer::Analyzer;
 use juncture::cache::CachedAnalyzer;

@@ -7,7 +7,9 @@
 //! magic    8 bytes  "JUNCLEX\0"
 //! version  u32      FORMAT_VERSION
 //! header   u32 length + JSON {entries, total_frequency, tag_keys, normalizer,
-//!          sources, reading_sets, spellings}
+//!          sources, spellings}
+//! sets     u32 count, (count + 1) × u32 offsets into the texts, then the
+//!          texts: each set of readings as a JSON array of tag maps
 //! fst      u64 length + bytes of the fst::Map (form → entry number, in key order)
 //! records  entries × 8 bytes: f32 frequency, u32 (reading set << 2 | spelling)
 //! ```
@@ -15,8 +17,10 @@
 //! An entry's key is not stored: entry numbers are ranks in key order, so
 //! the FST gives the key of a number back (at each state, take the last
 //! transition whose output does not pass the number). Tag sets are interned
-//! (`reading_sets`); the display spelling is coded as 0 = the key, 1 = the key
-//! with its first letter capitalised, 2 = listed in `spellings`.
+//! (`sets`, decoded when an entry that has one is first built: start-up
+//! reads nothing of them); the display spelling is coded as 0 = the key, 1 =
+//! the key with its first letter capitalised, 2 = listed in `spellings`
+//! (sorted by entry number).
 
 use super::{Entry, Lexicon, LexiconError, Tags};
 use std::sync::{Arc, OnceLock};
@@ -24,7 +28,7 @@ use std::sync::{Arc, OnceLock};
 /// Magic bytes at the start of a compiled lexicon.
 pub const MAGIC: &[u8; 8] = b"JUNCLEX\0";
 /// Version of the file layout; files of another version must be rebuilt.
-pub const FORMAT_VERSION: u32 = 1;
+pub const FORMAT_VERSION: u32 = 2;
 
 /// Bytes of a compiled lexicon: embedded in the binary or read from a file.
 #[derive(Clone)]
@@ -90,14 +94,15 @@ impl AsRef<[u8]> for IndexBytes {
 pub(super) struct LazyEntries {
     index: fst::Map<IndexBytes>,
     records: IndexBytes,
-    /// The whole file; `reading_sets` are byte ranges of its header's JSON.
-    bytes: IndexBytes,
-    /// Where each interned set of readings is written (JSON), decoded when an
-    /// entry that has it is first built: a lexicon with lemma tags has
-    /// hundreds of thousands of sets, and decoding them all at start-up
-    /// would cost more time and memory than the rest of the load.
-    reading_sets: Vec<(u32, u32)>,
-    spellings: std::collections::HashMap<usize, String>,
+    /// The offset table of the sets of readings (`sets + 1` little-endian
+    /// u32s) and, after it, their JSON texts. A set is decoded when an entry
+    /// that has it is first built: a lexicon with lemma tags has hundreds of
+    /// thousands of sets, and decoding them all at start-up would cost more
+    /// time and memory than the rest of the load.
+    set_table: IndexBytes,
+    sets: usize,
+    /// Display spellings other than the key, by entry number (sorted).
+    spellings: Vec<(usize, String)>,
     /// Entries built so far, in blocks of [`BLOCK`] allocated when one of
     /// their entries is first built (a slot for every entry at start-up
     /// would mean writing tens of megabytes before the first word).
@@ -133,7 +138,7 @@ impl LazyEntries {
 
     /// How many sets of readings the file has.
     pub(super) fn reading_set_count(&self) -> usize {
-        self.reading_sets.len()
+        self.sets
     }
 
     pub(super) fn get(&self, id: usize) -> &Entry {
@@ -144,11 +149,10 @@ impl LazyEntries {
             let key = key_of(&self.index, id as u64);
             let form = match meta & 3 {
                 1 => capitalise(&key),
-                2 => self
-                    .spellings
-                    .get(&id)
-                    .cloned()
-                    .unwrap_or_else(|| key.clone()),
+                2 => match self.spellings.binary_search_by_key(&id, |s| s.0) {
+                    Ok(i) => self.spellings[i].1.clone(),
+                    Err(_) => key.clone(),
+                },
                 _ => key.clone(),
             };
             let readings = self.readings(meta >> 2);
@@ -163,19 +167,27 @@ impl LazyEntries {
 }
 
 impl LazyEntries {
-    /// Set of readings number `set` (empty if the file does not have it; the
-    /// ranges were checked to be JSON when the file was loaded).
+    /// Set of readings number `set` (empty if the file does not have it; a
+    /// file from disk had its sets checked when it was loaded).
     fn readings(&self, set: usize) -> Vec<Tags> {
-        let Some(&(start, len)) = self.reading_sets.get(set) else {
+        if set >= self.sets {
             return Vec::new();
-        };
-        let (start, len) = (start as usize, len as usize);
-        self.bytes
-            .as_ref()
-            .get(start..start + len)
+        }
+        set_text(self.set_table.as_ref(), self.sets, set)
             .and_then(|raw| serde_json::from_slice(raw).ok())
             .unwrap_or_default()
     }
+}
+
+/// The JSON text of set `set` in a set table (offsets, then texts).
+fn set_text(table: &[u8], sets: usize, set: usize) -> Option<&[u8]> {
+    let offset = |i: usize| -> Option<usize> {
+        let b = table.get(i * 4..i * 4 + 4)?;
+        Some(u32::from_le_bytes(b.try_into().ok()?) as usize)
+    };
+    let texts = (sets + 1) * 4;
+    let (start, end) = (offset(set)?, offset(set + 1)?);
+    table.get(texts.checked_add(start)?..texts.checked_add(end)?)
 }
 
 fn capitalise(key: &str) -> String {
@@ -212,19 +224,6 @@ fn key_of(index: &fst::Map<IndexBytes>, id: u64) -> String {
     String::from_utf8(key).unwrap_or_default()
 }
 
-/// The header as read: like [`Header`], with the sets of readings left as
-/// JSON text (see [`LazyEntries`]).
-#[derive(serde::Deserialize)]
-struct HeaderIn<'a> {
-    entries: usize,
-    total_frequency: f64,
-    tag_keys: Vec<String>,
-    normalizer: String,
-    #[serde(borrow)]
-    reading_sets: Vec<&'a serde_json::value::RawValue>,
-    spellings: Vec<(usize, String)>,
-}
-
 #[derive(serde::Serialize, serde::Deserialize)]
 struct Header {
     entries: usize,
@@ -232,7 +231,6 @@ struct Header {
     tag_keys: Vec<String>,
     normalizer: String,
     sources: Vec<String>,
-    reading_sets: Vec<Vec<Tags>>,
     spellings: Vec<(usize, String)>,
 }
 
@@ -285,16 +283,27 @@ pub fn write(lexicon: &Lexicon, sources: &[String]) -> Vec<u8> {
         tag_keys: lexicon.tag_keys().iter().cloned().collect(),
         normalizer: lexicon.fingerprint.clone(),
         sources: sources.to_vec(),
-        reading_sets: sets,
         spellings,
     };
     let header = serde_json::to_vec(&header).unwrap_or_default();
+    let mut texts = Vec::new();
+    let mut offsets = Vec::with_capacity(4 * (sets.len() + 1));
+    offsets.extend_from_slice(&0u32.to_le_bytes());
+    for set in &sets {
+        serde_json::to_writer(&mut texts, set).unwrap_or_default();
+        offsets.extend_from_slice(&(texts.len() as u32).to_le_bytes());
+    }
     let fst = lexicon.fst_bytes();
-    let mut out = Vec::with_capacity(32 + header.len() + fst.len() + records.len());
+    let mut out = Vec::with_capacity(
+        40 + header.len() + offsets.len() + texts.len() + fst.len() + records.len(),
+    );
     out.extend_from_slice(MAGIC);
     out.extend_from_slice(&FORMAT_VERSION.to_le_bytes());
     out.extend_from_slice(&(header.len() as u32).to_le_bytes());
     out.extend_from_slice(&header);
+    out.extend_from_slice(&(sets.len() as u32).to_le_bytes());
+    out.extend_from_slice(&offsets);
+    out.extend_from_slice(&texts);
     out.extend_from_slice(&(fst.len() as u64).to_le_bytes());
     out.extend_from_slice(fst);
     out.extend_from_slice(&records);
@@ -341,56 +350,36 @@ pub fn load(
         ))
     };
     let hlen = r.u32().ok_or_else(corrupt)? as usize;
-    let header_at = r.at;
-    let header_bytes = r.take(hlen).ok_or_else(corrupt)?;
-    // Byte ranges of the sets of readings within the file. An embedded
-    // lexicon was written by `write` and is tested with the binary: its sets
-    // are found by a scan of the bytes, and only the rest of the header is
-    // parsed (parsing the sets' JSON only to skip it took most of start-up).
-    // A file from disk is parsed in full, so a damaged set is refused here.
-    let scanned = match bytes.data {
-        Data::Static(_) => scan_reading_sets(header_bytes),
-        Data::Shared(_) => None,
-    };
-    let (header, ranges): (HeaderIn, Vec<(usize, usize)>) = match &scanned {
-        Some(scan) => {
-            let header = serde_json::from_slice(&scan.rest).map_err(|_| corrupt())?;
-            let ranges = scan
-                .sets
-                .iter()
-                .map(|&(start, len)| (header_at + start, len))
-                .collect();
-            (header, ranges)
-        }
-        None => {
-            let header: HeaderIn = serde_json::from_slice(header_bytes).map_err(|_| corrupt())?;
-            let base = all.as_ptr() as usize;
-            let ranges = header
-                .reading_sets
-                .iter()
-                .map(|raw| {
-                    let text = raw.get();
-                    ((text.as_ptr() as usize).wrapping_sub(base), text.len())
-                })
-                .collect();
-            (header, ranges)
-        }
-    };
-    let mut reading_sets = Vec::with_capacity(ranges.len());
-    for (start, len) in ranges {
-        if start.checked_add(len).is_none_or(|end| end > all.len()) {
-            return Err(corrupt());
-        }
-        let (Ok(start), Ok(len)) = (u32::try_from(start), u32::try_from(len)) else {
-            return Err(corrupt());
-        };
-        reading_sets.push((start, len));
-    }
+    let header: Header =
+        serde_json::from_slice(r.take(hlen).ok_or_else(corrupt)?).map_err(|_| corrupt())?;
     if let Some(expected_normalizer) = expected_normalizer.filter(|e| *e != header.normalizer) {
         return Err(bad(format!(
             "the lexicon was compiled for another normalization ({}) than this rule-set's ({expected_normalizer}); {rebuild}",
             header.normalizer
         )));
+    }
+    let sets = r.u32().ok_or_else(corrupt)? as usize;
+    let table_start = r.at;
+    let offsets = r.take((sets + 1) * 4).ok_or_else(corrupt)?;
+    let texts_len = offsets
+        .get(sets * 4..)
+        .and_then(|b| b.try_into().ok())
+        .map(|b: [u8; 4]| u32::from_le_bytes(b) as usize)
+        .ok_or_else(corrupt)?;
+    r.take(texts_len).ok_or_else(corrupt)?;
+    let set_table = bytes.slice(table_start, r.at);
+    // A file from disk may be damaged: every set must be JSON readings, at
+    // offsets that go forward. Embedded lexicons are built and tested with
+    // the binary and skip this.
+    if !matches!(bytes.data, Data::Static(_)) {
+        let table = set_table.as_ref();
+        for set in 0..sets {
+            let text = set_text(table, sets, set).ok_or_else(corrupt)?;
+            serde_json::from_slice::<Vec<Tags>>(text).map_err(|_| corrupt())?;
+        }
+    }
+    if !header.spellings.windows(2).all(|w| w[0].0 < w[1].0) {
+        return Err(corrupt());
     }
     let flen = r.u64().ok_or_else(corrupt)? as usize;
     let fst_start = r.at;
@@ -413,9 +402,9 @@ pub fn load(
     let lazy = LazyEntries {
         index: index.clone(),
         records: bytes.slice(rec_start, rec_start + rec_len),
-        bytes: bytes.clone(),
-        reading_sets,
-        spellings: header.spellings.into_iter().collect(),
+        set_table,
+        sets,
+        spellings: header.spellings,
         cache: (0..header.entries.div_ceil(BLOCK))
             .map(|_| OnceLock::new())
             .collect(),
@@ -428,91 +417,6 @@ pub fn load(
         header.tag_keys.into_iter().collect(),
         header.normalizer,
     ))
-}
-
-/// A header split by [`scan_reading_sets`].
-struct ScannedHeader {
-    /// The header with its `reading_sets` array emptied (`[]`).
-    rest: Vec<u8>,
-    /// (start, length) of each set within the header.
-    sets: Vec<(usize, usize)>,
-}
-
-/// Finds the sets of readings in a header written by [`write`]: the value of
-/// the top-level key `reading_sets`, an array of arrays, by one pass over the
-/// bytes that follows strings and brackets. `None` when the header is not laid
-/// out that way (then it is parsed in full).
-fn scan_reading_sets(header: &[u8]) -> Option<ScannedHeader> {
-    const KEY: &[u8] = b"reading_sets";
-    let mut depth = 0usize;
-    let mut i = 0;
-    // Where the array starts, once the key has been read at depth 1.
-    let mut key_seen = false;
-    let mut array: Option<usize> = None;
-    let mut element = 0;
-    let mut sets = Vec::new();
-    while i < header.len() {
-        match header[i] {
-            b'"' => {
-                // Only keys and values of other fields are strings here: the
-                // sets' own strings are inside brackets deeper down.
-                if array.is_some() && depth == 2 {
-                    return None;
-                }
-                let start = i + 1;
-                i = start;
-                loop {
-                    match *header.get(i)? {
-                        b'"' => break,
-                        b'\\' => i += 2,
-                        _ => i += 1,
-                    }
-                }
-                if depth == 1 && &header[start..i] == KEY {
-                    // The key, then `:` and the array.
-                    let mut after = header[i + 1..].iter().filter(|b| !b.is_ascii_whitespace());
-                    if after.next() != Some(&b':') || after.next() != Some(&b'[') {
-                        return None;
-                    }
-                    key_seen = true;
-                }
-            }
-            b'[' | b'{' => {
-                depth += 1;
-                if key_seen && depth == 2 {
-                    if header[i] != b'[' {
-                        return None;
-                    }
-                    key_seen = false;
-                    array = Some(i);
-                } else if array.is_some() && depth == 3 {
-                    if header[i] != b'[' {
-                        return None;
-                    }
-                    element = i;
-                }
-            }
-            b']' | b'}' => {
-                if let Some(start) = array {
-                    if depth == 3 {
-                        sets.push((element, i + 1 - element));
-                    } else if depth == 2 {
-                        let mut rest = Vec::with_capacity(header.len() - (i - start) + 1);
-                        rest.extend_from_slice(&header[..start]);
-                        rest.extend_from_slice(b"[]");
-                        rest.extend_from_slice(&header[i + 1..]);
-                        return Some(ScannedHeader { rest, sets });
-                    }
-                }
-                depth = depth.checked_sub(1)?;
-            }
-            b',' | b':' | b' ' | b'\n' | b'\r' | b'\t' => {}
-            _ if array.is_some() && depth == 2 => return None,
-            _ => {}
-        }
-        i += 1;
-    }
-    None
 }
 
 /// A one-paragraph description of a compiled lexicon's header.
@@ -583,22 +487,33 @@ mod tests {
     }
 
     #[test]
-    fn scanned_and_parsed_headers_give_the_same_readings() {
+    fn embedded_and_checked_files_give_the_same_readings() {
         let (lex, n) = sample();
         let bytes = lex.to_compiled(&["t.tsv".into()]);
         let fp = normalizer_fingerprint(&n);
         let embedded: &'static [u8] = Box::leak(bytes.clone().into_boxed_slice());
-        let scanned = load("x", IndexBytes::embedded(embedded), Some(&fp)).unwrap();
-        let parsed = load("x", IndexBytes::owned(bytes), Some(&fp)).unwrap();
-        assert_eq!(scanned.len(), parsed.len());
-        for id in 0..parsed.len() {
-            assert_eq!(scanned.entry(id), parsed.entry(id));
+        let unchecked = load("x", IndexBytes::embedded(embedded), Some(&fp)).unwrap();
+        let checked = load("x", IndexBytes::owned(bytes), Some(&fp)).unwrap();
+        assert_eq!(unchecked.len(), checked.len());
+        for id in 0..checked.len() {
+            assert_eq!(unchecked.entry(id), checked.entry(id));
         }
-        assert!(
-            scan_reading_sets(br#"{"entries":1,"reading_sets":[[{"a":"]"}],[]]}"#)
-                .is_some_and(|s| s.sets == vec![(29, 11), (41, 2)] && s.rest.ends_with(b"[]}"))
-        );
-        assert!(scan_reading_sets(br#"{"x":"reading_sets","reading_sets":null}"#).is_none());
+        assert_eq!(unchecked.reading_set_count(), checked.reading_set_count());
+    }
+
+    #[test]
+    fn a_damaged_set_of_readings_is_refused() {
+        let (lex, n) = sample();
+        let fp = normalizer_fingerprint(&n);
+        let mut bytes = lex.to_compiled(&[]);
+        // The first set's JSON starts with `[`; make it invalid.
+        let hlen = u32::from_le_bytes(bytes[12..16].try_into().unwrap()) as usize;
+        let sets = u32::from_le_bytes(bytes[16 + hlen..20 + hlen].try_into().unwrap()) as usize;
+        let first_text = 20 + hlen + (sets + 1) * 4;
+        assert_eq!(bytes[first_text], b'[');
+        bytes[first_text] = b'!';
+        let err = load("x", IndexBytes::owned(bytes), Some(&fp)).unwrap_err();
+        assert!(err.to_string().contains("corrupt"), "{err}");
     }
 
     #[test]

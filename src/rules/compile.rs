@@ -15,7 +15,9 @@ use super::diagnostic::{Diagnostic, Diagnostics, Location, Severity, SourceMap};
 use super::parse::parse_file;
 use super::*;
 use crate::normalize::{Normalizer, Segmenter};
+use rustc_hash::{FxBuildHasher, FxHashMap};
 use std::collections::{BTreeMap, BTreeSet, HashMap};
+use std::hash::BuildHasher;
 use std::path::{Path, PathBuf};
 
 /// Most instances one rule may expand to.
@@ -168,11 +170,11 @@ pub fn compile(
         settings: header.settings,
         sources: cx.sources,
         warnings,
-        surface_index: HashMap::new(),
+        surface_index: FxHashMap::default(),
         max_surface_chars: 0,
         surface_trie: Default::default(),
         condition_ids: Default::default(),
-        end_index: HashMap::new(),
+        end_index: FxHashMap::default(),
         max_left_chars: 0,
         max_right_chars: 0,
     };
@@ -1116,7 +1118,9 @@ fn expand_rule(
         return None;
     }
     let mut instances: Vec<Instance> = Vec::new();
-    let mut seen = std::collections::HashSet::new();
+    // Instances made so far, by content hash (the same combination of
+    // segments can come out of two choices).
+    let mut seen: FxHashMap<u64, Vec<u32>> = FxHashMap::default();
     let mut choice = vec![0usize; free.len()];
     loop {
         let render = |pieces: &[Piece]| -> String {
@@ -1156,21 +1160,33 @@ fn expand_rule(
             Some(BoundaryMark::Hyphen) => vec![Separator::Hyphen],
             Some(BoundaryMark::OptionalSpace) => vec![Separator::Space, Separator::None],
         };
-        for sep in separators {
+        let last = separators.len().saturating_sub(1);
+        let (mut left, mut right, mut before, mut after) = (left, right, before, after);
+        for (n, sep) in separators.into_iter().enumerate() {
+            // The last separator takes the strings, the others copies.
+            let mut take = |s: &mut String| {
+                if n == last {
+                    std::mem::take(s)
+                } else {
+                    s.clone()
+                }
+            };
             let inst = Instance {
                 rule: index,
-                left: left.clone(),
-                right: right.clone(),
-                surface_left: before.clone(),
+                left: take(&mut left),
+                right: take(&mut right),
+                surface_left: take(&mut before),
                 separator: sep,
-                surface_right: after.clone(),
+                surface_right: take(&mut after),
                 scope: if sep == Separator::Space {
                     Scope::Phrase
                 } else {
                     scope
                 },
             };
-            if seen.insert(inst.clone()) {
+            let same = seen.entry(FxBuildHasher.hash_one(&inst)).or_default();
+            if !same.iter().any(|&i| instances[i as usize] == inst) {
+                same.push(instances.len() as u32);
                 instances.push(inst);
             }
         }
@@ -1218,11 +1234,7 @@ fn expand_rule(
             return None;
         }
     }
-    for inst in &instances {
-        // A merged surface must not split a segment in a way the segmenter cannot undo.
-        let _ = segmenter;
-        let _ = inst;
-    }
+    let _ = segmenter;
     let change_text = {
         let file = cx.sources.file(rule.change.span.file);
         file.text[rule.change.span.start..rule.change.span.end]
@@ -1345,39 +1357,62 @@ fn check_rule_names(cx: &mut Context, statements: &[&Statement]) {
 /// Pass 5: rule names must be unique; two rules with exactly the same
 /// instances, conditions and scope would double every analysis.
 fn check_duplicates(cx: &mut Context, expanded: &Expanded) {
+    type Content<'e> = Vec<(&'e str, &'e str, &'e str, Separator, &'e str)>;
     let mut by_name: HashMap<&str, usize> = HashMap::new();
-    let mut by_content: HashMap<Vec<(String, String, String, Separator, String)>, usize> =
-        HashMap::new();
-    let mut per_rule: Vec<Vec<(String, String, String, Separator, String)>> =
-        vec![Vec::new(); expanded.rules.len()];
+    // Rules by a fingerprint of their instances that does not depend on
+    // their order (count, wrapping sum and xor of the instances' hashes) and
+    // of their clauses; only rules with equal fingerprints are compared in
+    // full, so the instance lists are sorted only for likely duplicates.
+    let mut by_fingerprint: FxHashMap<(usize, u64, u64, &str), Vec<usize>> = FxHashMap::default();
+    let mut per_rule: Vec<Content> = vec![Vec::new(); expanded.rules.len()];
+    let mut sums = vec![(0u64, 0u64); expanded.rules.len()];
     for inst in &expanded.instances {
-        per_rule[inst.rule].push((
-            inst.left.clone(),
-            inst.right.clone(),
-            inst.surface_left.clone(),
+        let content = (
+            inst.left.as_str(),
+            inst.right.as_str(),
+            inst.surface_left.as_str(),
             inst.separator,
-            inst.surface_right.clone(),
-        ));
+            inst.surface_right.as_str(),
+        );
+        let h = FxBuildHasher.hash_one(content);
+        let sum = &mut sums[inst.rule];
+        *sum = (sum.0.wrapping_add(h), sum.1 ^ h.rotate_left(17));
+        per_rule[inst.rule].push(content);
     }
+    let cond_keys: Vec<String> = expanded
+        .rules
+        .iter()
+        .map(|rule| {
+            format!(
+                "{:?}{:?}{:?}{}",
+                rule.left_conditions, rule.right_conditions, rule.scope, rule.attested
+            )
+        })
+        .collect();
+    let sorted = |i: usize| -> Content {
+        let mut key = per_rule[i].clone();
+        key.sort_unstable();
+        key
+    };
     for (i, rule) in expanded.rules.iter().enumerate() {
         if by_name.contains_key(rule.name.as_str()) {
             continue; // reported by check_rule_names
         }
         by_name.insert(&rule.name, i);
-        let mut key = per_rule[i].clone();
-        key.sort();
-        let cond_key = format!(
-            "{:?}{:?}{:?}{}",
-            rule.left_conditions, rule.right_conditions, rule.scope, rule.attested
+        let fingerprint = (
+            per_rule[i].len(),
+            sums[i].0,
+            sums[i].1,
+            cond_keys[i].as_str(),
         );
-        key.push((
-            cond_key,
-            String::new(),
-            String::new(),
-            Separator::None,
-            String::new(),
-        ));
-        if let Some(&first) = by_content.get(&key) {
+        let same = by_fingerprint.entry(fingerprint).or_default();
+        let first = if same.is_empty() {
+            None
+        } else {
+            let key = sorted(i);
+            same.iter().copied().find(|&j| sorted(j) == key)
+        };
+        if let Some(first) = first {
             let d = Diagnostic::error(
                 "duplicate-change",
                 format!(
@@ -1391,7 +1426,7 @@ fn check_duplicates(cx: &mut Context, expanded: &Expanded) {
             cx.diagnostics.push(d);
             continue;
         }
-        by_content.insert(key, i);
+        same.push(i);
     }
 }
 

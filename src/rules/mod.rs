@@ -20,7 +20,7 @@ pub use compile::{compile, compile_named, CompileOptions};
 pub use diagnostic::{Diagnostic, Diagnostics, Location, Severity, SourceMap};
 
 use crate::normalize::{Normalizer, Segmenter};
-use std::collections::{BTreeSet, HashMap};
+use std::collections::BTreeSet;
 
 /// A compiled rule-set: normalization, segments, classes, junction rules
 /// expanded into concrete instances, and indexes for both directions.
@@ -58,11 +58,11 @@ pub struct RuleSet {
     pub sources: SourceMap,
     /// Warnings found while compiling.
     pub warnings: Vec<Diagnostic>,
-    pub(crate) surface_index: HashMap<String, Vec<usize>>,
+    pub(crate) surface_index: rustc_hash::FxHashMap<String, Vec<usize>>,
     pub(crate) max_surface_chars: usize,
     pub(crate) surface_trie: surface_trie::SurfaceTrie,
     pub(crate) condition_ids: surface_trie::ConditionIds,
-    pub(crate) end_index: HashMap<(String, String), Vec<usize>>,
+    pub(crate) end_index: rustc_hash::FxHashMap<(String, String), Vec<usize>>,
     pub(crate) max_left_chars: usize,
     pub(crate) max_right_chars: usize,
 }

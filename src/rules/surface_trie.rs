@@ -37,7 +37,7 @@ impl ConditionIds {
         edge_end: &'c [super::Condition],
     ) -> ConditionIds {
         type Tests<'c> = Vec<(&'c str, &'c Option<(bool, Vec<String>)>)>;
-        let mut seen: std::collections::HashMap<Tests<'c>, u32> = std::collections::HashMap::new();
+        let mut seen: rustc_hash::FxHashMap<Tests<'c>, u32> = Default::default();
         let mut uses_form = Vec::new();
         let mut id = |list: &'c [super::Condition]| -> u32 {
             let tests: Tests = list.iter().map(|c| (c.key.as_str(), &c.test)).collect();
@@ -118,7 +118,7 @@ impl SurfaceTrie {
             trie.nodes[node].surface = Some(trie.surfaces.len() as u32);
             trie.surfaces.push(SurfaceInstances::new(list, lefts));
         }
-        let mut seen: std::collections::HashMap<&str, u32> = std::collections::HashMap::new();
+        let mut seen: rustc_hash::FxHashMap<&str, u32> = Default::default();
         seen.insert("", 0);
         trie.right_ids = rights
             .iter()
