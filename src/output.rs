@@ -197,7 +197,7 @@ pub struct StreamedEnd<'a> {
 }
 
 /// The script fields of a streamed trailer.
-#[derive(Debug, Serialize)]
+#[derive(Debug, Clone, Copy, Serialize)]
 pub struct StreamedReading<'a> {
     /// The script the input was read in.
     pub script: &'static str,
@@ -217,17 +217,18 @@ impl<'a> Streamer<'a> {
         }
     }
 
-    /// What comes before the first analysis. `transliteration` (text only)
-    /// adds the `read as SCRIPT: …` line of a rule-set with a script.
-    pub fn head(&mut self, head: &SplitHead, transliteration: Option<(&str, &str)>) -> String {
+    /// What comes before the first analysis. `reading` (text only) adds
+    /// the `read as SCRIPT: …` line of a rule-set with a script when the
+    /// transliteration differs from the input.
+    pub fn head(&mut self, head: &SplitHead, reading: Option<&StreamedReading<'_>>) -> String {
         self.head_reason = head.reason;
         match self.format {
             Format::Text => {
                 let mut out = String::new();
                 count_line(self.input, &head.count, &mut out);
                 out.push('\n');
-                if let Some((script, text)) = transliteration.filter(|(_, t)| *t != self.input) {
-                    let _ = writeln!(out, "  read as {script}: {text}");
+                if let Some(r) = reading.filter(|r| r.transliteration != self.input) {
+                    let _ = writeln!(out, "  read as {}: {}", r.script, r.transliteration);
                 }
                 if let Some(e) = &head.error {
                     let _ = writeln!(out, "  error: {e}");
@@ -284,11 +285,15 @@ impl<'a> Streamer<'a> {
                 }
             }
             Format::Tsv => {
+                // A limit found only by the search (its work limit) was not
+                // known when the third column was written: it comes last.
                 let shown = self.head_reason.filter(|&x| x != Truncation::Limit);
-                let late = summary.reason.filter(|&x| x != Truncation::Limit);
-                if late.is_some() && late != shown && summary.error.is_none() {
+                let late = summary
+                    .reason
+                    .filter(|&x| x != Truncation::Limit && Some(x) != shown);
+                if let Some(late) = late.filter(|_| summary.error.is_none()) {
                     out.push('\t');
-                    out.push_str(&tsv_truncated(late.unwrap_or(Truncation::SearchSize)));
+                    out.push_str(&tsv_truncated(late));
                 }
                 out.push('\n');
             }

@@ -217,7 +217,6 @@ struct Weights<'a> {
     rules: &'a RuleSet,
     lexicon: &'a Lexicon,
     options: &'a SearchOptions,
-    divisor: f64,
 }
 
 /// What an edge's weight is made of, apart from the number of parts: its
@@ -229,6 +228,21 @@ struct EdgeTerms {
     term: f64,
     bonus: Option<f64>,
     divided: bool,
+}
+
+impl EdgeTerms {
+    /// The weight of an edge with these terms, for `divisor` parts.
+    fn weight(self, divisor: f64) -> f64 {
+        let term = if self.divided {
+            self.term / divisor
+        } else {
+            self.term
+        };
+        match self.bonus {
+            Some(b) => term + b,
+            None => term,
+        }
+    }
 }
 
 impl Weights<'_> {
@@ -264,24 +278,6 @@ impl Weights<'_> {
                 }
             }
         }
-    }
-
-    /// The weight of an edge with these terms, for the current divisor.
-    fn of(&self, t: EdgeTerms) -> f64 {
-        let term = if t.divided {
-            t.term / self.divisor
-        } else {
-            t.term
-        };
-        match t.bonus {
-            Some(b) => term + b,
-            None => term,
-        }
-    }
-
-    /// Every edge's weight for the current divisor.
-    fn all(&self, terms: &[EdgeTerms]) -> Vec<f64> {
-        terms.iter().map(|&t| self.of(t)).collect()
     }
 }
 
@@ -395,15 +391,23 @@ fn collect_path(links: &[PathLink], mut link: Option<usize>) -> Vec<EdgeIndex> {
 }
 
 /// Best-first search under one layering: one complete path per `next()`,
-/// best first, expanding only what the next path needs. `w` is the weight of
-/// every edge. After `max_pops` pops the search stops (`cut`) and yields
-/// nothing more.
+/// best first, expanding only what the next path needs. Its tables (`w`,
+/// the weight of every edge, and `h`, the heuristic) may be dropped while it
+/// has not started ([`BestFirst::activate`] computes them again) and are
+/// dropped once it is done. After `max_pops` pops the search stops (`cut`)
+/// and yields nothing more.
 struct BestFirst<'l> {
     lattice: &'l Lattice,
-    w: Vec<f64>,
-    h: Vec<f64>,
+    divisor: f64,
     layering: Layering,
     width: usize,
+    budget0: usize,
+    /// The best score of any path of this search (the start's completion).
+    bound: f64,
+    w: Vec<f64>,
+    h: Vec<f64>,
+    /// Started: the start is (or was) on the heap.
+    active: bool,
     heap: BinaryHeap<Item>,
     links: Vec<PathLink>,
     seq: u64,
@@ -421,43 +425,84 @@ fn completion(h: &[f64], layering: Layering, width: usize, node: NodeIndex, budg
 }
 
 impl<'l> BestFirst<'l> {
-    fn new(lattice: &'l Lattice, w: Vec<f64>, layering: Layering, max_pops: usize) -> Self {
-        let order = topological(lattice);
-        let width = match layering {
-            Layering::Free => 1,
-            Layering::AtMost(p) | Layering::Exactly(p) => p + 1,
+    /// A search with the edge weights of `terms` for `divisor`; its tables
+    /// are kept when `keep`, else dropped until it is activated.
+    fn new(
+        lattice: &'l Lattice,
+        terms: &[EdgeTerms],
+        divisor: f64,
+        layering: Layering,
+        max_pops: usize,
+        keep: bool,
+    ) -> Self {
+        let (width, budget0) = match layering {
+            Layering::Free => (1, 0),
+            Layering::AtMost(p) | Layering::Exactly(p) => (p + 1, p),
         };
-        let h = heuristic(lattice, order, &w, layering, width);
-        let budget0 = match layering {
-            Layering::Free => 0,
-            Layering::AtMost(p) | Layering::Exactly(p) => p,
-        };
-        let mut heap = BinaryHeap::new();
-        let start_h = completion(&h, layering, width, lattice.start, budget0);
-        if start_h.is_finite() {
-            heap.push(Item {
-                priority: start_h,
-                seq: 0,
-                g: 0.0,
-                node: lattice.start,
-                budget: budget0,
-                parts: 0,
-                path: None,
-            });
-        }
-        BestFirst {
+        let mut search = BestFirst {
             lattice,
-            w,
-            h,
+            divisor,
             layering,
             width,
-            heap,
+            budget0,
+            bound: f64::NEG_INFINITY,
+            w: Vec::new(),
+            h: Vec::new(),
+            active: false,
+            heap: BinaryHeap::new(),
             links: Vec::new(),
             seq: 0,
             pops: 0,
             max_pops,
             cut: false,
+        };
+        search.tables(terms);
+        search.bound = completion(&search.h, layering, width, lattice.start, budget0);
+        if !keep {
+            search.drop_tables();
         }
+        search
+    }
+
+    /// Computes the weight of every edge and the heuristic.
+    fn tables(&mut self, terms: &[EdgeTerms]) {
+        self.w = terms.iter().map(|&t| t.weight(self.divisor)).collect();
+        let order = topological(self.lattice);
+        self.h = heuristic(self.lattice, order, &self.w, self.layering, self.width);
+    }
+
+    fn drop_tables(&mut self) {
+        self.w = Vec::new();
+        self.h = Vec::new();
+        self.links = Vec::new();
+    }
+
+    /// Numbers the tables hold (kept in bounds by [`TABLE_BUDGET`]).
+    fn table_size(&self) -> usize {
+        self.lattice.graph.edge_count() + self.lattice.graph.node_count() * self.width
+    }
+
+    /// Starts the search, computing its tables again if they were dropped.
+    fn activate(&mut self, terms: &[EdgeTerms]) {
+        if self.active {
+            return;
+        }
+        self.active = true;
+        if !self.bound.is_finite() {
+            return;
+        }
+        if self.h.is_empty() {
+            self.tables(terms);
+        }
+        self.heap.push(Item {
+            priority: self.bound,
+            seq: 0,
+            g: 0.0,
+            node: self.lattice.start,
+            budget: self.budget0,
+            parts: 0,
+            path: None,
+        });
     }
 }
 
@@ -465,6 +510,7 @@ impl Iterator for BestFirst<'_> {
     type Item = ScoredPath;
 
     fn next(&mut self) -> Option<ScoredPath> {
+        debug_assert!(self.active, "a search yields only once activated");
         if self.cut {
             return None;
         }
@@ -475,7 +521,8 @@ impl Iterator for BestFirst<'_> {
             self.pops += 1;
             if self.pops > self.max_pops {
                 self.cut = true;
-                self.heap.clear();
+                self.heap = BinaryHeap::new();
+                self.drop_tables();
                 return None;
             }
             if item.node == lattice.end {
@@ -516,6 +563,7 @@ impl Iterator for BestFirst<'_> {
                 });
             }
         }
+        self.drop_tables();
         None
     }
 }
@@ -550,21 +598,31 @@ fn max_parts_on_paths(lattice: &Lattice, order: &[NodeIndex]) -> usize {
 /// it is one search per number of parts `n` (exactly `n` parts, as the score
 /// divides by `n`), merged on their next paths: highest score first, on equal
 /// scores the one with fewer parts, and within one `n` the search's own order
-/// (edge order breaks ties). Each per-`n` search is advanced only when its
+/// (edge order breaks ties). A search is started only when its best score
+/// (known from its heuristic) could come next, and advanced only when its
 /// next path is needed.
 ///
 /// Each search stops after `max_pops` pops ([`SearchOptions::max_pops`]);
 /// then it yields nothing more, and [`truncation`](Self::truncation) says so.
 pub struct RankedPaths<'l> {
+    /// What the edge weights are made of, for searches that compute their
+    /// tables again.
+    terms: Vec<EdgeTerms>,
     /// One search per layering (per `n`, fewest parts first, for frequency).
     streams: Vec<BestFirst<'l>>,
-    /// The next path of each search, once asked for.
+    /// The next path of each started search.
     heads: Vec<Option<ScoredPath>>,
-    /// The search whose path was taken last: it is advanced before the next
-    /// comparison, not before (so nothing is searched that is not asked for).
+    /// The search whose path was taken last: it is advanced at the next
+    /// call, not before (so nothing is searched that is not asked for).
     taken: Option<usize>,
-    started: bool,
 }
+
+/// Most numbers the per-`n` searches of one lattice keep in their tables
+/// before they are started (64 MB): beyond it a search's tables are computed
+/// for its best score, dropped, and computed again if it is started. The
+/// frequency model's searches for all `n` up to `--max-parts 0` of a long
+/// input would otherwise hold a table each at once.
+const TABLE_BUDGET: usize = 1 << 23;
 
 impl RankedPaths<'_> {
     /// `Some(Truncation::SearchSize)` when a search stopped at its work limit
@@ -581,49 +639,73 @@ impl RankedPaths<'_> {
     pub fn pops(&self) -> usize {
         self.streams.iter().map(|s| s.pops).sum()
     }
+
+    /// How many searches have been started (of one per `n` for frequency).
+    pub fn started(&self) -> usize {
+        self.streams.iter().filter(|s| s.active).count()
+    }
 }
 
 impl Iterator for RankedPaths<'_> {
     type Item = ScoredPath;
 
     fn next(&mut self) -> Option<ScoredPath> {
-        if !self.started {
-            self.started = true;
-            self.heads = self.streams.iter_mut().map(Iterator::next).collect();
-        } else if let Some(i) = self.taken.take() {
+        if let Some(i) = self.taken.take() {
             self.heads[i] = self.streams[i].next();
         }
-        // The best head; on equal scores the first, i.e. the fewest parts.
-        let mut best: Option<(usize, f64)> = None;
-        for (i, head) in self.heads.iter().enumerate() {
-            if let Some(p) = head {
-                if best.is_none_or(|(_, s)| p.score.total_cmp(&s) == Ordering::Greater) {
-                    best = Some((i, p.score));
+        loop {
+            // The best next path; on equal scores the first, i.e. the
+            // fewest parts.
+            let mut best: Option<(usize, f64)> = None;
+            for (i, head) in self.heads.iter().enumerate() {
+                if let Some(p) = head {
+                    if best.is_none_or(|(_, s)| p.score.total_cmp(&s) == Ordering::Greater) {
+                        best = Some((i, p.score));
+                    }
                 }
             }
+            // A search not started yet whose best score could come first
+            // (with a margin for rounding, so as not to miss a tie) is
+            // started; the one with the highest score first.
+            let mut wake: Option<(usize, f64)> = None;
+            for (i, s) in self.streams.iter().enumerate() {
+                if s.active || !s.bound.is_finite() {
+                    continue;
+                }
+                let could =
+                    best.is_none_or(|(_, score)| s.bound + 1e-9 * (1.0 + s.bound.abs()) >= score);
+                if could && wake.is_none_or(|(_, b)| s.bound > b) {
+                    wake = Some((i, s.bound));
+                }
+            }
+            if let Some((i, _)) = wake {
+                self.streams[i].activate(&self.terms);
+                self.heads[i] = self.streams[i].next();
+                continue;
+            }
+            let (i, _) = best?;
+            self.taken = Some(i);
+            return self.heads[i].take();
         }
-        let (i, _) = best?;
-        self.taken = Some(i);
-        self.heads[i].take()
     }
 }
 
 /// Every analysis of `lattice`, best first, as a lazy iterator (see
-/// [`RankedPaths`]). The heuristic of each search is computed here; paths
-/// are searched for as they are asked for.
+/// [`RankedPaths`]). The heuristic of each search is computed here (it
+/// gives the search's best score); paths are searched for as they are
+/// asked for.
 pub fn paths<'l>(
     lattice: &'l Lattice,
     rules: &RuleSet,
     lexicon: &Lexicon,
     options: &SearchOptions,
 ) -> RankedPaths<'l> {
-    let mut weights = Weights {
+    let weights = Weights {
         rules,
         lexicon,
         options,
-        divisor: 1.0,
     };
-    let streams = match options.ranking {
+    let (terms, streams) = match options.ranking {
         Ranking::Probability => {
             let limit = part_limit(lattice, topological(lattice), options.max_parts);
             let layering = if limit == 0 {
@@ -636,8 +718,8 @@ pub fn paths<'l>(
                 .edge_weights()
                 .map(|e| weights.terms(e))
                 .collect();
-            let w = weights.all(&terms);
-            vec![BestFirst::new(lattice, w, layering, options.max_pops)]
+            let search = BestFirst::new(lattice, &terms, 1.0, layering, options.max_pops, true);
+            (terms, vec![search])
         }
         Ranking::Frequency => {
             let order = topological(lattice);
@@ -655,20 +737,27 @@ pub fn paths<'l>(
             } else {
                 Vec::new()
             };
-            (1..=most)
-                .map(|n| {
-                    weights.divisor = n as f64;
-                    let w = weights.all(&terms);
-                    BestFirst::new(lattice, w, Layering::Exactly(n), options.max_pops)
-                })
-                .collect()
+            let mut kept = 0usize;
+            let mut streams = Vec::with_capacity(most);
+            for n in 1..=most {
+                let layering = Layering::Exactly(n);
+                let mut search =
+                    BestFirst::new(lattice, &terms, n as f64, layering, options.max_pops, true);
+                kept += search.table_size();
+                if kept > TABLE_BUDGET {
+                    kept -= search.table_size();
+                    search.drop_tables();
+                }
+                streams.push(search);
+            }
+            (terms, streams)
         }
     };
     RankedPaths {
+        terms,
+        heads: vec![None; streams.len()],
         streams,
-        heads: Vec::new(),
         taken: None,
-        started: false,
     }
 }
 

@@ -199,6 +199,17 @@ fn install_interrupt_handler() {
     });
 }
 
+/// Exits with [`EXIT_INTERRUPTED`] after flushing what was written, if
+/// Ctrl-C came. For a streamed listing (`split --all`), called after each
+/// analysis written, so that an interrupt need not wait for the whole
+/// listing of a line.
+pub fn exit_if_interrupted() {
+    if INTERRUPTED.load(Ordering::SeqCst) {
+        flush_out();
+        std::process::exit(EXIT_INTERRUPTED);
+    }
+}
+
 /// Runs `each` for one input while holding the record lock, then exits if
 /// Ctrl-C came meanwhile.
 fn one_record(

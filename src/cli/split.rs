@@ -1,17 +1,21 @@
 //! `juncture split`: the main job.
 
 use super::common::{
-    for_each_input_with, Failure, FormatArg, InputLine, RecordWriter, ScopeArg, Source,
+    exit_if_interrupted, for_each_input_with, Failure, FormatArg, InputLine, RecordWriter,
+    ScopeArg, Source,
 };
 use super::progress::Progress;
 use super::{EXIT_OK, EXIT_SOME_FAILED};
 use clap::{Args, ValueEnum};
-use juncture::analyzer::{index_tokens, Analyzer, SplitRecord, TokenRecord};
+use juncture::analyzer::{
+    self, index_tokens, Analyzer, Count, Passthrough, SplitHead, SplitRecord, SplitSummary,
+    Streamed, TokenRecord,
+};
 use juncture::lexicon::Lexicon;
-use juncture::output::{self, Format, TermsOptions};
+use juncture::output::{self, Format, StreamedReading, Streamer, TermsOptions};
 use juncture::rules::RuleSet;
 use juncture::script::Script;
-use juncture::scripted;
+use juncture::scripted::{self, Reading};
 use std::collections::HashMap;
 use std::sync::{Arc, OnceLock};
 use std::time::Duration;
@@ -177,6 +181,9 @@ pub fn run(args: SplitArgs) -> Result<i32, Failure> {
     analyzer.timeout = (args.timeout > 0).then(|| Duration::from_millis(args.timeout));
     let k = if args.all { args.limit } else { args.top };
     if args.format == SplitFormat::Terms || args.passthrough {
+        if args.streams() {
+            return run_streamed(&args, &analyzer, k, None, Some(args.max_token_chars));
+        }
         return run_tokens(&args, &analyzer, k);
     }
     let analysed = scripted::rules_script(rules);
@@ -185,6 +192,9 @@ pub fn run(args: SplitArgs) -> Result<i32, Failure> {
             "error: rule-set `{}` declares no script (`set script = …`), so --script and --output-script do not apply",
             rules.name
         )));
+    }
+    if args.streams() {
+        return run_streamed(&args, &analyzer, k, analysed, None);
     }
     let mut writer = RecordWriter::new(args.format.format());
     let mut failed = 0usize;
@@ -226,6 +236,217 @@ pub fn run(args: SplitArgs) -> Result<i32, Failure> {
     } else {
         EXIT_OK
     })
+}
+
+impl SplitArgs {
+    /// Whether each line's analyses are written as they are found (`--all`
+    /// with a format that can stream: text, JSONL, TSV).
+    fn streams(&self) -> bool {
+        self.all
+            && matches!(
+                self.format,
+                SplitFormat::Text | SplitFormat::Jsonl | SplitFormat::Tsv
+            )
+    }
+}
+
+/// `--all` in a format that streams: each line's analyses are written as
+/// the search finds them (see [`output::Streamer`] for the layout), flushed
+/// after each unless the next input line is already waiting. With several
+/// `--jobs`, blocks of lines are analysed in parallel and each line's
+/// listing is written, in input order, when its block is done. `analysed`
+/// is the rule-set's script (if any); `passthrough` the token-length limit
+/// when numbers, URLs and the like are passed through.
+fn run_streamed(
+    args: &SplitArgs,
+    analyzer: &Analyzer,
+    k: usize,
+    analysed: Option<Script>,
+    passthrough: Option<usize>,
+) -> Result<i32, Failure> {
+    let format = args.format.format();
+    let mut writer = RecordWriter::new(format);
+    let mut failed = 0usize;
+    let jobs = args.jobs.max(1);
+    let stream = |line: &InputLine, write: &mut dyn FnMut(&str) -> Result<(), Failure>| {
+        stream_line(
+            analyzer,
+            args,
+            k,
+            format,
+            line,
+            analysed,
+            passthrough,
+            write,
+        )
+    };
+    if jobs == 1 {
+        for_each_input_with(&args.words, progress(args), |line| {
+            let mut write = |piece: &str| -> Result<(), Failure> {
+                if !piece.is_empty() {
+                    writer.write_rendered(piece)?;
+                    exit_if_interrupted();
+                }
+                Ok(())
+            };
+            if stream(&line, &mut write)? {
+                failed += 1;
+            }
+            Ok(())
+        })?;
+    } else {
+        let batch_size = 256 * jobs;
+        let mut batch: Vec<InputLine> = Vec::with_capacity(batch_size);
+        let flush = |batch: &mut Vec<InputLine>, writer: &mut RecordWriter| {
+            let lines = std::mem::take(batch);
+            let chunk = lines.len().div_ceil(jobs).max(1);
+            let listings: Vec<(String, bool)> = std::thread::scope(|scope| {
+                let handles: Vec<_> = lines
+                    .chunks(chunk)
+                    .map(|part| {
+                        scope.spawn(|| {
+                            part.iter()
+                                .map(|line| {
+                                    let mut out = String::new();
+                                    // Writing to a string cannot fail.
+                                    let failed = stream(line, &mut |piece: &str| {
+                                        out.push_str(piece);
+                                        Ok(())
+                                    })
+                                    .unwrap_or(true);
+                                    (out, failed)
+                                })
+                                .collect::<Vec<_>>()
+                        })
+                    })
+                    .collect();
+                handles
+                    .into_iter()
+                    .flat_map(|h| h.join().unwrap_or_default())
+                    .collect()
+            });
+            let mut failed = 0;
+            for (out, f) in &listings {
+                failed += usize::from(*f);
+                writer.write_rendered(out)?;
+            }
+            Ok::<usize, Failure>(failed)
+        };
+        for_each_input_with(&args.words, progress(args), |line| {
+            batch.push(line);
+            if batch.len() >= batch_size {
+                failed += flush(&mut batch, &mut writer)?;
+            }
+            Ok(())
+        })?;
+        failed += flush(&mut batch, &mut writer)?;
+    }
+    writer.finish()?;
+    Ok(if failed > 0 {
+        EXIT_SOME_FAILED
+    } else {
+        EXIT_OK
+    })
+}
+
+/// Writes one line's listing in the streamed layout through `write`, each
+/// piece as soon as it is known: the head, each analysis as the search finds
+/// it, the end. A line that is not read, passed through or split greedily
+/// has its record first and is written in the same layout. Returns whether
+/// the line failed (for the exit status).
+#[allow(clippy::too_many_arguments)]
+fn stream_line(
+    analyzer: &Analyzer,
+    args: &SplitArgs,
+    k: usize,
+    format: Format,
+    line: &InputLine,
+    analysed: Option<Script>,
+    passthrough: Option<usize>,
+    write: &mut dyn FnMut(&str) -> Result<(), Failure>,
+) -> Result<bool, Failure> {
+    let text = match line {
+        Ok(text) => text,
+        Err(bad) => {
+            let record = SplitRecord::failed(bad.lossy.clone(), bad.reason.clone());
+            write_streamed_record(format, &record, None, None, write)?;
+            return Ok(true);
+        }
+    };
+    if let Some(reason) = passthrough.and_then(|max| analyzer::passthrough(text, max)) {
+        let record = SplitRecord {
+            input: text.clone(),
+            count: Count(Default::default()),
+            truncated: false,
+            reason: None,
+            analyses: Vec::new(),
+            error: None,
+        };
+        write_streamed_record(format, &record, Some(reason), None, write)?;
+        return Ok(false);
+    }
+    let to = args.output_script.and_then(ScriptArg::script);
+    if args.greedy {
+        return Ok(match analysed {
+            Some(analysed) => {
+                let r = scripted::split_with(text, args.script.script(), analysed, to, |t| {
+                    analyzer.split_greedy(t)
+                });
+                let reading = StreamedReading {
+                    script: r.script,
+                    output_script: r.output_script,
+                    transliteration: &r.transliteration,
+                };
+                write_streamed_record(format, &r.record, None, Some(reading), write)?;
+                r.is_failure()
+            }
+            None => {
+                let record = analyzer.split_greedy(text);
+                write_streamed_record(format, &record, None, None, write)?;
+                record.is_failure()
+            }
+        });
+    }
+    let reading = analysed.map(|a| Reading::new(text, args.script.script(), a, to));
+    let shown = reading.as_ref().map(|r| StreamedReading {
+        script: r.from.name(),
+        output_script: r.to.name(),
+        transliteration: &r.text,
+    });
+    let mut streamer = Streamer::new(format, text);
+    let analysed_text = reading.as_ref().map_or(text.as_str(), |r| r.text.as_str());
+    let summary = analyzer.split_streaming(analysed_text, k, |step| match step {
+        Streamed::Head(head) => write(&streamer.head(&head, shown.as_ref())),
+        Streamed::Analysis(mut a) => {
+            if let Some(r) = &reading {
+                r.convert(&mut a);
+            }
+            write(&streamer.analysis(&a))
+        }
+    })?;
+    write(&streamer.end(&summary, None, shown))?;
+    Ok(summary.is_failure())
+}
+
+/// A complete record in the streamed layout of `--all`.
+fn write_streamed_record(
+    format: Format,
+    record: &SplitRecord,
+    passthrough: Option<Passthrough>,
+    reading: Option<StreamedReading<'_>>,
+    write: &mut dyn FnMut(&str) -> Result<(), Failure>,
+) -> Result<(), Failure> {
+    let mut streamer = Streamer::new(format, &record.input);
+    let head = SplitHead {
+        count: record.count.clone(),
+        reason: record.reason,
+        error: record.error.clone(),
+    };
+    write(&streamer.head(&head, reading.as_ref()))?;
+    for a in &record.analyses {
+        write(&streamer.analysis(a))?;
+    }
+    write(&streamer.end(&SplitSummary::of(record), passthrough, reading))
 }
 
 /// The progress bar, unless switched off or words were given as arguments.
