@@ -287,7 +287,7 @@ pub fn lexicalised_bonus(lexicon: &Lexicon, id: usize, options: &SearchOptions) 
     if options.lexicalised_bonus == 0.0 {
         return 0.0;
     }
-    let lexicalised = lexicon.entry(id).readings.iter().any(|r| {
+    let lexicalised = lexicon.readings(id).iter().any(|r| {
         r.get(LEXICALISED_TAG)
             .is_some_and(|v| v.split('|').any(|v| v == "yes"))
     });
@@ -598,7 +598,9 @@ fn max_parts_on_paths(lattice: &Lattice, order: &[NodeIndex]) -> usize {
 /// it is one search per number of parts `n` (exactly `n` parts, as the score
 /// divides by `n`), merged on their next paths: highest score first, on equal
 /// scores the one with fewer parts, and within one `n` the search's own order
-/// (edge order breaks ties). A search is started only when its best score
+/// (edge order breaks ties; analyses of equal score whose floating-point
+/// sums differ in the last bits also come in that order, which is therefore
+/// the same for every number taken). A search is started only when its best score
 /// (known from its heuristic) could come next, and advanced only when its
 /// next path is needed.
 ///
@@ -822,5 +824,225 @@ mod tests {
         let expected = (200..=300).fold(BigUint::zero(), |acc, p| acc + binomial(p, 400 - p));
         assert!(expected.bits() > 128);
         assert_eq!(got, expected);
+    }
+
+    /// The plain rule-set (concatenation only) with a lexicon of TSV lines.
+    fn plain(tsv: &[u8]) -> (RuleSet, Lexicon) {
+        let rules = compile_named("plain", &CompileOptions::default()).unwrap();
+        let mut b = LexiconBuilder::new(&rules.normalizer);
+        b.add_tsv("t", tsv).unwrap();
+        let lexicon = b.build().unwrap();
+        (rules, lexicon)
+    }
+
+    /// What [`best`] returned before the search was lazy: each search run
+    /// for `k` paths on its own, then (frequency) all of them sorted by score,
+    /// fewer parts first on equal scores, stably, and cut to `k`.
+    fn best_collected(
+        lattice: &Lattice,
+        rules: &RuleSet,
+        lexicon: &Lexicon,
+        options: &SearchOptions,
+        k: usize,
+    ) -> Vec<ScoredPath> {
+        let RankedPaths { terms, streams, .. } = paths(lattice, rules, lexicon, options);
+        let mut all = Vec::new();
+        for mut search in streams {
+            search.activate(&terms);
+            all.extend(search.by_ref().take(k));
+        }
+        if options.ranking == Ranking::Frequency {
+            all.sort_by(|a, b| b.score.total_cmp(&a.score).then(a.parts.cmp(&b.parts)));
+        }
+        all.truncate(k);
+        all
+    }
+
+    fn same(a: &[ScoredPath], b: &[ScoredPath]) -> bool {
+        a.len() == b.len()
+            && a.iter().zip(b).all(|(x, y)| {
+                x.edges == y.edges && x.score.to_bits() == y.score.to_bits() && x.parts == y.parts
+            })
+    }
+
+    /// The lazy iterator, `best` and the collect-and-sort of before agree
+    /// exactly for every `k`, under both models, with and without a part
+    /// limit, for runs of letters with readings of many numbers of parts.
+    /// Under the frequency model every word has frequency 1 (`ln f = 0`) and
+    /// junctions cost nothing, so every analysis scores exactly 0: the
+    /// order is the tie order alone (fewer parts first, then each search's
+    /// own order).
+    #[test]
+    fn lazy_paths_are_exactly_what_best_returns_for_every_k() {
+        for (ranking, tsv, split_cost) in [
+            (
+                Ranking::Probability,
+                &b"a\t5\naa\t3\naaa\t8\nb\t2\n"[..],
+                0.25,
+            ),
+            (Ranking::Frequency, b"a\t1\naa\t1\naaa\t1\nb\t1\n", 0.0),
+            (Ranking::Frequency, b"a\t1\naa\t1\naaa\t1\nb\t1\n", 0.25),
+            (Ranking::Frequency, b"a\t1\naa\t1\naaa\t1\nb\t1\n", -0.25),
+        ] {
+            let (rules, lexicon) = plain(tsv);
+            for input in ["aaaaaaa", "aaaaaaaaaa", "aabaaab", "b"] {
+                let lattice = build(&rules, &lexicon, input, &LatticeOptions::default());
+                for max_parts in [0, 4, 6] {
+                    let mut options = SearchOptions::from_rules(&rules);
+                    options.ranking = ranking;
+                    options.max_parts = max_parts;
+                    options.split_cost = split_cost;
+                    let total = count(&lattice, max_parts);
+                    for k in [0, 1, 2, 3, 5, 8, 13, 40, 1000] {
+                        let lazy: Vec<ScoredPath> = paths(&lattice, &rules, &lexicon, &options)
+                            .take(k)
+                            .collect();
+                        let (listed, cut) = best(&lattice, &rules, &lexicon, &options, k);
+                        let before = best_collected(&lattice, &rules, &lexicon, &options, k);
+                        let what =
+                            format!("{input} {ranking:?} {split_cost} max-parts {max_parts} k {k}");
+                        assert!(same(&lazy, &listed), "{what}");
+                        assert!(same(&lazy, &before), "{what}");
+                        assert!(cut.is_none(), "{what}");
+                        let expected = total.clone().min(BigUint::from(k));
+                        assert_eq!(BigUint::from(lazy.len()), expected, "{what}");
+                        assert!(
+                            lazy.windows(2).all(|w| w[0].score >= w[1].score),
+                            "{what}: best first"
+                        );
+                    }
+                }
+            }
+        }
+    }
+
+    /// With frequencies whose logarithms are inexact, analyses of the same
+    /// parts in another order score the same but for the last bits of the
+    /// floating-point sums, and one search does not give such near-ties in
+    /// strict floating-point order (its priorities are summed in another
+    /// order than the scores). The collect-and-sort of before reordered
+    /// them; the lazy merge gives each search's order. Everything else is the
+    /// same: at every rank the score agrees to rounding, and the complete
+    /// listing holds the same analyses.
+    #[test]
+    fn lazy_paths_differ_from_collect_and_sort_only_within_near_ties() {
+        let (rules, lexicon) = plain(b"a\t5\naa\t3\naaa\t8\nb\t2\n");
+        for input in ["aaaaaaa", "aaaaaaaaaa", "aabaaab"] {
+            let lattice = build(&rules, &lexicon, input, &LatticeOptions::default());
+            let mut options = SearchOptions::from_rules(&rules);
+            options.ranking = Ranking::Frequency;
+            options.split_cost = 0.25;
+            let k = 100_000;
+            let lazy: Vec<ScoredPath> = paths(&lattice, &rules, &lexicon, &options)
+                .take(k)
+                .collect();
+            let before = best_collected(&lattice, &rules, &lexicon, &options, k);
+            assert_eq!(BigUint::from(lazy.len()), count(&lattice, 0), "{input}");
+            assert_eq!(lazy.len(), before.len(), "{input}");
+            for (x, y) in lazy.iter().zip(&before) {
+                assert!((x.score - y.score).abs() < 1e-12, "{input}");
+            }
+            let sorted = |v: &[ScoredPath]| {
+                let mut e: Vec<Vec<EdgeIndex>> = v.iter().map(|p| p.edges.clone()).collect();
+                e.sort();
+                e
+            };
+            assert_eq!(sorted(&lazy), sorted(&before), "{input}");
+        }
+    }
+
+    /// The same with German compounds and the bundled German rule-set and
+    /// lexicon (frequency model, one search per number of parts up to five).
+    #[test]
+    fn lazy_paths_agree_with_best_on_german_compounds() {
+        let rules = compile_named("german", &CompileOptions::default()).unwrap();
+        let (lexicon, _) = Lexicon::for_rules(&rules, &[], true, false).unwrap();
+        let options = SearchOptions::from_rules(&rules);
+        assert_eq!(options.ranking, Ranking::Frequency);
+        for input in [
+            "Wetterbericht",
+            "Arbeitsamt",
+            "Schifffahrtsstraße",
+            "Donaudampfschifffahrtsgesellschaft",
+            "Hochzeitstag",
+        ] {
+            let lattice = build(&rules, &lexicon, input, &LatticeOptions::default());
+            for k in [1, 2, 5, 20, 100] {
+                let lazy: Vec<ScoredPath> = paths(&lattice, &rules, &lexicon, &options)
+                    .take(k)
+                    .collect();
+                let before = best_collected(&lattice, &rules, &lexicon, &options, k);
+                assert!(same(&lazy, &before), "{input} k {k}");
+                assert!(same(
+                    &lazy,
+                    &best(&lattice, &rules, &lexicon, &options, k).0
+                ));
+            }
+        }
+    }
+
+    /// A run of 300 `a` with the words `a` and `aa` has Fibonacci(301)
+    /// (about 3.6 · 10^62) analyses: the first few come after a few pops per
+    /// path, and under the frequency model (300 searches, one per number of
+    /// parts) only the searches whose best score can come first are started.
+    #[test]
+    fn the_first_paths_do_not_need_the_whole_search() {
+        let (rules, lexicon) = plain(b"a\t10\naa\t5\n");
+        let lattice = build(
+            &rules,
+            &lexicon,
+            &"a".repeat(300),
+            &LatticeOptions::default(),
+        );
+        assert!(count(&lattice, 0).bits() > 200);
+        for ranking in [Ranking::Probability, Ranking::Frequency] {
+            let mut options = SearchOptions::from_rules(&rules);
+            options.ranking = ranking;
+            let mut ranked = paths(&lattice, &rules, &lexicon, &options);
+            let first: Vec<ScoredPath> = ranked.by_ref().take(5).collect();
+            assert_eq!(first.len(), 5);
+            // Far fewer pops than analyses (the per-`n` searches meet many
+            // exact ties, which they expand breadth-first); each path has
+            // up to 599 edges.
+            assert!(
+                ranked.pops() < 200_000,
+                "{ranking:?}: {} pops",
+                ranked.pops()
+            );
+            assert!(ranked.started() <= 10, "{ranking:?}: {}", ranked.started());
+            assert!(ranked.truncation().is_none());
+            // More can be taken from where it stopped.
+            let more: Vec<ScoredPath> = ranked.by_ref().take(5).collect();
+            let ten: Vec<ScoredPath> = paths(&lattice, &rules, &lexicon, &options)
+                .take(10)
+                .collect();
+            let both: Vec<ScoredPath> = first.into_iter().chain(more).collect();
+            assert!(same(&both, &ten), "{ranking:?}");
+        }
+    }
+
+    /// The work limit stops a search and is reported after it ends.
+    #[test]
+    fn the_work_limit_is_reported_when_it_cuts_the_listing() {
+        let (rules, lexicon) = plain(b"a\t10\naa\t5\n");
+        let lattice = build(
+            &rules,
+            &lexicon,
+            &"a".repeat(300),
+            &LatticeOptions::default(),
+        );
+        let mut options = SearchOptions::from_rules(&rules);
+        options.max_pops = 100;
+        let mut ranked = paths(&lattice, &rules, &lexicon, &options);
+        assert!(ranked.next().is_none());
+        assert_eq!(ranked.truncation(), Some(Truncation::SearchSize));
+        let (listed, cut) = best(&lattice, &rules, &lexicon, &options, 3);
+        assert!(listed.is_empty());
+        assert_eq!(cut, Some(Truncation::SearchSize));
+        // Not reached: nothing to report.
+        options.max_pops = 1_000_000;
+        let (listed, cut) = best(&lattice, &rules, &lexicon, &options, 3);
+        assert_eq!(listed.len(), 3);
+        assert_eq!(cut, None);
     }
 }

@@ -1,6 +1,7 @@
 //! Every limit of `split` is an option with a default, and hitting it is
 //! reported in that line's record (`"truncated": true` and a `"reason"` in
-//! JSON, the reason in words in text output), never silent, never a panic.
+//! JSON, in the trailer object of a streamed `--all` listing in JSONL, the
+//! reason in words in text output), never silent, never a panic.
 //!
 //! | option | default | reason |
 //! |---|---|---|
@@ -132,8 +133,19 @@ fn analyses_listed() {
     assert_eq!(r["count"], 2);
     assert_eq!(r["analyses"].as_array().unwrap().len(), 1);
     assert_complete(&one(&["--top", "2", "tormek"]));
-    let r = one(&["--all", "--limit", "1", "tormek"]);
-    assert_truncated(&r, "limit");
+    // `--all` streams: one object per analysis, then the trailer with the
+    // truncation.
+    let r = records(&["--all", "--limit", "1", "tormek"]);
+    assert_eq!(r.len(), 2, "{r:?}");
+    assert_eq!(r[0]["rank"], 1);
+    assert_truncated(&r[1], "limit");
+    assert_eq!(r[1]["listed"], 1);
+    assert_eq!(r[1]["count"], 2);
+    let t = text(&["--all", "--limit", "1", "tormek"]);
+    assert!(
+        t.ends_with("\n  (1 shown; more analyses exist than were listed (--top / --limit))\n"),
+        "{t}"
+    );
     let r = one(&["--top", "0", "tormek"]);
     assert_truncated(&r, "limit");
     assert!(r["analyses"].as_array().unwrap().is_empty());
