@@ -219,7 +219,7 @@ pub fn part_readings<'a>(
     pattern_tags: &'a mut Vec<Tags>,
 ) -> &'a [Tags] {
     match source {
-        PartSource::Entry(id) => &lexicon.entry(id).readings,
+        PartSource::Entry(id) => lexicon.readings(id),
         PartSource::Pattern(p) => {
             let pat = &rules.patterns[p];
             let mut tags: Tags = pat.tags.iter().cloned().collect();
@@ -252,7 +252,7 @@ pub fn attested(
     let Some(id) = lexicon.get(&written) else {
         return false;
     };
-    lexicon.entry(id).readings.iter().any(|r| {
+    lexicon.readings(id).iter().any(|r| {
         r.get(crate::proof::LEMMA_TAG).is_some_and(|lemmas| {
             lemmas
                 .split('|')
@@ -838,7 +838,13 @@ impl<'a> Builder<'a> {
     /// The word edge for entry `id` read from `part` to the end of the input.
     fn end_edge(&mut self, part: PendingPart<'a>, span: WordSpan, id: usize) {
         let node = part.node;
-        let key = &self.lexicon.entry(id).key;
+        // The entry's key is `carried + chars[pos..q]` (the index was walked
+        // along it): built here, so that the entry itself is not.
+        let mut key_buf = std::mem::take(&mut self.key);
+        key_buf.clear();
+        key_buf.push_str(part.carried);
+        key_buf.extend(&self.chars[span.pos..span.q]);
+        let key = key_buf.as_str();
         let whole = node == self.start;
         if self.aligned(key, span.carried_chars, 0)
             && self.word_allowed(node, part.pending, key, PartSource::Entry(id))
@@ -852,15 +858,16 @@ impl<'a> Builder<'a> {
         {
             let edge = WordEdge {
                 source: PartSource::Entry(id),
-                key: key.clone(),
+                key: key.to_string(),
                 carried: part.carried.to_string(),
                 left_end: String::new(),
                 start: span.pos,
                 end: span.q,
-                frequency: self.lexicon.entry(id).frequency,
+                frequency: self.lexicon.frequency(id),
             };
             self.add_edge(node, self.end, Edge::Word(edge));
         }
+        self.key = key_buf;
     }
 
     /// The word edges for entry `id` ending before the junction instances
@@ -952,7 +959,7 @@ impl<'a> Builder<'a> {
         let Some(id) = self.lexicon.get(&written) else {
             return false;
         };
-        self.lexicon.entry(id).readings.iter().any(|r| {
+        self.lexicon.readings(id).iter().any(|r| {
             r.get("pos")
                 .is_some_and(|p| p.split('|').any(|v| v == "noun"))
                 && !r.contains_key("lemma")

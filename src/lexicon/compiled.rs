@@ -107,6 +107,10 @@ pub(super) struct LazyEntries {
     /// their entries is first built (a slot for every entry at start-up
     /// would mean writing tens of megabytes before the first word).
     cache: Vec<OnceLock<Box<[OnceLock<Entry>]>>>,
+    /// Sets of readings decoded so far, in blocks like `cache`: conditions
+    /// and ranking read an entry's tags without building the entry (whose
+    /// key has to be walked out of the FST).
+    set_cache: Vec<OnceLock<Box<[OnceLock<Vec<Tags>>]>>>,
     entries: usize,
 }
 
@@ -155,7 +159,7 @@ impl LazyEntries {
                 },
                 _ => key.clone(),
             };
-            let readings = self.readings(meta >> 2);
+            let readings = self.set_readings(meta >> 2).to_vec();
             Entry {
                 key,
                 form,
@@ -167,15 +171,27 @@ impl LazyEntries {
 }
 
 impl LazyEntries {
+    /// An entry's readings, decoded once per set of readings.
+    pub(super) fn readings(&self, id: usize) -> &[Tags] {
+        self.set_readings(self.reading_set(id))
+    }
+
     /// Set of readings number `set` (empty if the file does not have it; a
     /// file from disk had its sets checked when it was loaded).
-    fn readings(&self, set: usize) -> Vec<Tags> {
+    fn set_readings(&self, set: usize) -> &[Tags] {
+        const EMPTY: &[Tags] = &[];
         if set >= self.sets {
-            return Vec::new();
+            return EMPTY;
         }
-        set_text(self.set_table.as_ref(), self.sets, set)
-            .and_then(|raw| serde_json::from_slice(raw).ok())
-            .unwrap_or_default()
+        let Some(block) = self.set_cache.get(set / BLOCK) else {
+            return EMPTY;
+        };
+        let block = block.get_or_init(|| (0..BLOCK).map(|_| OnceLock::new()).collect());
+        block[set % BLOCK].get_or_init(|| {
+            set_text(self.set_table.as_ref(), self.sets, set)
+                .and_then(|raw| serde_json::from_slice(raw).ok())
+                .unwrap_or_default()
+        })
     }
 }
 
@@ -408,6 +424,7 @@ pub fn load(
         cache: (0..header.entries.div_ceil(BLOCK))
             .map(|_| OnceLock::new())
             .collect(),
+        set_cache: (0..sets.div_ceil(BLOCK)).map(|_| OnceLock::new()).collect(),
         entries: header.entries,
     };
     Ok(Lexicon::from_compiled(

@@ -485,6 +485,15 @@ impl Lexicon {
         }
     }
 
+    /// An entry's readings (the same as `entry(id).readings`, without
+    /// building the entry of a compiled lexicon).
+    pub fn readings(&self, id: usize) -> &[Tags] {
+        match &self.store {
+            Store::Owned(v) => &v[id].readings,
+            Store::Lazy(l) => l.readings(id),
+        }
+    }
+
     /// An entry's frequency (the same as `entry(id).frequency`, without
     /// building the entry of a compiled lexicon).
     pub fn frequency(&self, id: usize) -> f64 {
