@@ -53,7 +53,16 @@ pub struct SplitArgs {
     /// How many of the best analyses to list.
     #[arg(long, short = 'k', default_value_t = 5, value_name = "K")]
     pub top: usize,
-    /// List every analysis, best first, up to --limit.
+    /// List every analysis, best first, up to --limit, each as it is found.
+    ///
+    /// In text, jsonl and tsv each analysis is written as soon as it is found (a listing of
+    /// millions starts at once and is not held in memory): text gives the
+    /// `(N shown; …)` note on a line after the listing; jsonl gives one
+    /// object per analysis (`input`, `rank`, `score`, `parts`, `junctions`)
+    /// and then one trailer object per input (`input`, `count`, `listed`,
+    /// `truncated`, `reason`, `error`); tsv names a search cut by its work
+    /// limit in a last column. json and yaml still collect each input's
+    /// record (one document).
     #[arg(long)]
     pub all: bool,
     /// Most analyses listed with --all.
