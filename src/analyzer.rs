@@ -610,3 +610,64 @@ pub fn index_tokens(line: &str) -> Vec<&str> {
         .filter(|t| !t.is_empty())
         .collect()
 }
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::rules::{compile_named, CompileOptions};
+
+    /// The streamed steps are the record: the head first with the count,
+    /// then the analyses as `split` lists them, then the summary.
+    #[test]
+    fn streamed_steps_are_the_record() {
+        let rules = compile_named("demo", &CompileOptions::default()).unwrap();
+        let (lexicon, _) = Lexicon::for_rules(&rules, &[], true, true).unwrap();
+        let analyzer = Analyzer::new(&rules, &lexicon);
+        for input in ["tormek", "solanavitor", "ed ano", "xyz", ""] {
+            for limit in [0, 1, 2, 100] {
+                let record = analyzer.split(input, limit);
+                let mut steps = Vec::new();
+                let summary = analyzer
+                    .split_streaming(input, limit, |s| {
+                        steps.push(s);
+                        Ok::<(), ()>(())
+                    })
+                    .unwrap();
+                let Some(Streamed::Head(head)) = steps.first() else {
+                    panic!("the head comes first");
+                };
+                assert_eq!(head.count, record.count);
+                let analyses: Vec<&Analysis> = steps[1..]
+                    .iter()
+                    .map(|s| match s {
+                        Streamed::Analysis(a) => a,
+                        Streamed::Head(_) => panic!("one head"),
+                    })
+                    .collect();
+                assert_eq!(analyses, record.analyses.iter().collect::<Vec<_>>());
+                assert_eq!(summary, SplitSummary::of(&record));
+            }
+        }
+    }
+
+    /// An error from the caller (e.g. a closed output) stops the search.
+    #[test]
+    fn an_error_from_the_caller_stops_the_listing() {
+        let rules = compile_named("demo", &CompileOptions::default()).unwrap();
+        let (lexicon, _) = Lexicon::for_rules(&rules, &[], true, true).unwrap();
+        let analyzer = Analyzer::new(&rules, &lexicon);
+        let mut seen = 0;
+        let result = analyzer.split_streaming(&"tormek".repeat(40), usize::MAX, |s| {
+            if matches!(s, Streamed::Analysis(_)) {
+                seen += 1;
+            }
+            if seen == 3 {
+                Err("closed")
+            } else {
+                Ok(())
+            }
+        });
+        assert_eq!(result, Err("closed"));
+        assert_eq!(seen, 3);
+    }
+}
