@@ -18,7 +18,7 @@
 //! - [`lexicon`]: word lists, normalized and indexed in an FST.
 //! - [`normalize`]: Unicode normal form, case folding, segments.
 //! - [`lattice`]: the DAG of all ways to read a surface string.
-//! - [`search`]: exact counts and best-first enumeration of analyses.
+//! - [`search`]: exact counts and lazy best-first enumeration of analyses.
 //! - [`proof`]: analyses with their proof chains, verification, and joining.
 //! - [`output`]: text, JSON, YAML and TSV renderings.
 
