@@ -486,3 +486,71 @@ pub fn split_terms(r: &crate::analyzer::TokenRecord, o: &TermsOptions) -> String
             .join(" ")
     )
 }
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use num_bigint::BigUint;
+
+    fn head(reason: Option<Truncation>) -> SplitHead {
+        SplitHead {
+            count: Count(BigUint::from(7u32)),
+            reason,
+            error: None,
+        }
+    }
+
+    fn summary(listed: usize, reason: Option<Truncation>) -> SplitSummary {
+        SplitSummary {
+            count: Count(BigUint::from(7u32)),
+            listed,
+            truncated: reason.is_some(),
+            reason,
+            error: None,
+        }
+    }
+
+    /// TSV names a limit known before the search in the third column, as the
+    /// record does, and one the search found (its work limit) last.
+    #[test]
+    fn streamed_tsv_names_a_late_limit_in_a_last_column() {
+        let mut s = Streamer::new(Format::Tsv, "Wort");
+        assert_eq!(
+            s.head(&head(Some(Truncation::Parts)), None),
+            "Wort\t7\ttruncated: parts"
+        );
+        assert_eq!(
+            s.end(&summary(7, Some(Truncation::Parts)), None, None),
+            "\n"
+        );
+        let mut s = Streamer::new(Format::Tsv, "Wort");
+        assert_eq!(s.head(&head(Some(Truncation::Limit)), None), "Wort\t7");
+        assert_eq!(
+            s.end(&summary(2, Some(Truncation::Limit)), None, None),
+            "\n"
+        );
+        let mut s = Streamer::new(Format::Tsv, "Wort");
+        assert_eq!(s.head(&head(None), None), "Wort\t7");
+        assert_eq!(
+            s.end(&summary(3, Some(Truncation::SearchSize)), None, None),
+            "\ttruncated: search-size\n"
+        );
+    }
+
+    /// Text gives the note of an incomplete listing after it; JSONL a trailer.
+    #[test]
+    fn streamed_text_and_jsonl_end_with_the_summary() {
+        let mut s = Streamer::new(Format::Text, "Wort");
+        assert_eq!(s.head(&head(None), None), "Wort: 7 analyses\n");
+        assert_eq!(
+            s.end(&summary(3, Some(Truncation::SearchSize)), None, None),
+            "  (3 shown; the ranked search reached its work limit)\n"
+        );
+        let mut s = Streamer::new(Format::Jsonl, "Wort");
+        assert_eq!(s.head(&head(None), None), "");
+        assert_eq!(
+            s.end(&summary(3, Some(Truncation::SearchSize)), None, None),
+            "{\"input\":\"Wort\",\"count\":7,\"listed\":3,\"truncated\":true,\"reason\":\"search-size\"}\n"
+        );
+    }
+}

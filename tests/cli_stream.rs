@@ -299,3 +299,39 @@ fn help_says_which_formats_stream() {
     assert!(help.contains("trailer"), "{help}");
     assert!(help.contains("json and yaml"), "{help}");
 }
+
+/// A rule-set with a script (Sanskrit): forms are written back in the
+/// input's script as each analysis comes, the text listing keeps its
+/// `read as` line, and the JSONL trailer carries the script fields.
+#[test]
+fn sanskrit_in_another_script_streams_the_same_analyses() {
+    let words = ["तच्छ्रुत्वा", "tan na", "rAmo 'pi"];
+    let sanskrit = |extra: &[&str]| {
+        let mut args = vec!["split", "--rules", "sanskrit"];
+        args.extend_from_slice(extra);
+        args.extend_from_slice(&words);
+        stdout(&run_args(&args))
+    };
+    assert_eq!(sanskrit(&["--all"]), sanskrit(&["--top", "1000"]));
+    assert!(sanskrit(&["--all"]).contains("  read as devanagari: tacchrutvā\n"));
+    let streamed = json_lines(&sanskrit(&["-f", "jsonl", "--all"]));
+    let records = json_lines(&sanskrit(&["-f", "jsonl", "--top", "1000"]));
+    let trailers: Vec<&Value> = streamed
+        .iter()
+        .filter(|v| v.get("listed").is_some())
+        .collect();
+    assert_eq!(trailers.len(), records.len());
+    for (t, r) in trailers.iter().zip(&records) {
+        for key in [
+            "input",
+            "count",
+            "script",
+            "output_script",
+            "transliteration",
+        ] {
+            assert_eq!(t[key], r[key], "{key}");
+        }
+    }
+    let first = streamed.iter().find(|v| v["input"] == words[0]).unwrap();
+    assert_eq!(first["parts"], records[0]["analyses"][0]["parts"]);
+}
