@@ -246,10 +246,13 @@ pub fn attested(
     let mut written = String::with_capacity(stem.len() + inst.surface_left.len());
     written.push_str(stem);
     written.push_str(&inst.surface_left);
-    if written == key {
-        return true;
-    }
-    let Some(id) = lexicon.get(&written) else {
+    written == key || lemma_is(rules, lexicon, lexicon.get(&written), key)
+}
+
+/// Whether entry `written` (if any) has a reading whose `lemma` normalizes
+/// to `key`.
+fn lemma_is(rules: &RuleSet, lexicon: &Lexicon, written: Option<usize>, key: &str) -> bool {
+    let Some(id) = written else {
         return false;
     };
     lexicon.readings(id).iter().any(|r| {
@@ -300,6 +303,10 @@ struct WordSpan {
     carried_chars: usize,
     q: usize,
     after: usize,
+    /// Where the walk from `pos` keeps its entries in `Builder::walk_ids`
+    /// (`ids..ids_end`).
+    ids: usize,
+    ids_end: usize,
 }
 
 /// A part node waiting to be expanded.
@@ -351,8 +358,12 @@ struct Builder<'a> {
     stack: Vec<(u32, State<'a>)>,
     /// What the lexicon walks found, per (position, carried start number):
     /// a range of `found`.
-    walks: IntMap<(usize, u32), (usize, usize)>,
+    walks: IntMap<(usize, u32), (usize, usize, usize, usize)>,
     found: Vec<Found>,
+    /// Per walk, from its position on: the entry (if any) that the carried
+    /// start and the letters read so far spell, `walk_ids[start + (q - pos)]`
+    /// for the input up to `q` (see [`WordSpan::ids`]).
+    walk_ids: Vec<Option<usize>>,
     /// Whether a condition list (by its number) holds for an entry (or, when
     /// the list tests only tags, for every entry with the same readings).
     memo: &'a ConditionMemo,
@@ -537,6 +548,7 @@ pub fn build_with(
         stack: Vec::new(),
         walks: IntMap::default(),
         found: Vec::with_capacity(2 * room),
+        walk_ids: Vec::with_capacity(4 * room),
         memo,
         key: String::new(),
     };
@@ -724,12 +736,12 @@ impl<'a> Builder<'a> {
         // Part nodes at one position with the same carried start (they
         // differ in the rule whose right conditions are pending) read the
         // same words: the lexicon is walked once for all of them.
-        let (from, to) = match self.walks.get(&(pos, part.right)) {
+        let (from, to, ids, ids_end) = match self.walks.get(&(pos, part.right)) {
             Some(&range) => range,
             None => {
-                let from = self.found.len();
+                let (from, ids) = (self.found.len(), self.walk_ids.len());
                 self.walk(part.carried, pos);
-                let range = (from, self.found.len());
+                let range = (from, self.found.len(), ids, self.walk_ids.len());
                 self.walks.insert((pos, part.right), range);
                 range
             }
@@ -750,6 +762,8 @@ impl<'a> Builder<'a> {
                 carried_chars,
                 q: found.q,
                 after: found.after,
+                ids,
+                ids_end,
             };
             match found.group {
                 None => self.end_edge(part, span, found.id),
@@ -784,6 +798,7 @@ impl<'a> Builder<'a> {
         let mut stack = std::mem::take(&mut self.stack);
         let mut q = pos;
         loop {
+            self.walk_ids.push(state.entry());
             if self.bounds[q] {
                 if q == n {
                     if let Some(id) = state.entry() {
@@ -915,13 +930,23 @@ impl<'a> Builder<'a> {
             if !self.conditions_hold(&rule.left_conditions, list, key, source) {
                 continue;
             }
+            // The left word as the junction writes it (the input up to the
+            // end of the junction's letters before the boundary), as an entry.
+            let written_chars = span.q - span.pos + inst.surface_left.chars().count();
+            let written = self.walk_ids[span.ids..span.ids_end]
+                .get(written_chars)
+                .copied()
+                .flatten();
             if !rules.settings.shadowed_linking
                 && part.carried.is_empty()
-                && self.shadowed(&self.chars[span.pos..span.q], inst, key)
+                && self.shadowed(inst, key, written_chars, written)
             {
                 continue;
             }
-            if rule.attested && !attested(rules, self.lexicon, key, inst) {
+            if rule.attested
+                && inst.surface_left != inst.left
+                && !lemma_is(rules, self.lexicon, written, key)
+            {
                 continue;
             }
             let pending_next = (!rule.right_conditions.is_empty()).then_some(inst.rule);
@@ -944,19 +969,20 @@ impl<'a> Builder<'a> {
     /// by the junction `inst`, is shadowed: the junction adds letters before
     /// its boundary and the word as written with them is a common noun of
     /// its own (see [`crate::rules::SHADOWING_READING`]).
-    fn shadowed(&self, own: &[char], inst: &crate::rules::Instance, key: &str) -> bool {
+    fn shadowed(
+        &self,
+        inst: &crate::rules::Instance,
+        key: &str,
+        written_chars: usize,
+        written: Option<usize>,
+    ) -> bool {
         if inst.separator != crate::rules::Separator::None || inst.surface_left.is_empty() {
             return false;
         }
-        let written: String = own
-            .iter()
-            .copied()
-            .chain(inst.surface_left.chars())
-            .collect();
-        if written.chars().count() <= key.chars().count() {
+        if written_chars <= key.chars().count() {
             return false;
         }
-        let Some(id) = self.lexicon.get(&written) else {
+        let Some(id) = written else {
             return false;
         };
         self.lexicon.readings(id).iter().any(|r| {

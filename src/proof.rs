@@ -186,9 +186,7 @@ pub fn analysis(
                 let mut scratch = Vec::new();
                 let readings = part_readings(rules, lexicon, w.source, &mut scratch).to_vec();
                 let (form, source) = match w.source {
-                    PartSource::Entry(id) => {
-                        (lexicon.entry(id).form.clone(), "lexicon".to_string())
-                    }
+                    PartSource::Entry(id) => (lexicon.form(id, &w.key), "lexicon".to_string()),
                     PartSource::Pattern(p) => (
                         text.original_slice(w.start, w.end),
                         format!("pattern:{}", rules.patterns[p].name),

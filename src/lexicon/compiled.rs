@@ -145,6 +145,25 @@ impl LazyEntries {
         self.sets
     }
 
+    /// An entry's display spelling, given its key (without building the
+    /// entry, whose key would be walked out of the FST).
+    pub(super) fn form(&self, id: usize, key: &str) -> String {
+        if let Some(e) = self.cache[id / BLOCK]
+            .get()
+            .and_then(|b| b[id % BLOCK].get())
+        {
+            return e.form.clone();
+        }
+        match self.record(id).1 & 3 {
+            1 => capitalise(key),
+            2 => match self.spellings.binary_search_by_key(&id, |s| s.0) {
+                Ok(i) => self.spellings[i].1.clone(),
+                Err(_) => key.to_string(),
+            },
+            _ => key.to_string(),
+        }
+    }
+
     pub(super) fn get(&self, id: usize) -> &Entry {
         let block =
             self.cache[id / BLOCK].get_or_init(|| (0..BLOCK).map(|_| OnceLock::new()).collect());
@@ -501,6 +520,22 @@ mod tests {
         let c = back.step_str(back.root(), "arbeit").unwrap();
         assert_eq!(back.entry(back.entry_at(c).unwrap()).form, "Arbeit");
         assert_eq!(back.total_frequency(), lex.total_frequency());
+    }
+
+    #[test]
+    fn forms_and_readings_without_building_entries_agree_with_entries() {
+        let (lex, n) = sample();
+        let bytes = lex.to_compiled(&[]);
+        let fp = normalizer_fingerprint(&n);
+        let fresh = load("x", IndexBytes::owned(bytes.clone()), Some(&fp)).unwrap();
+        let built = load("x", IndexBytes::owned(bytes), Some(&fp)).unwrap();
+        for id in 0..lex.len() {
+            let e = lex.entry(id);
+            assert_eq!(fresh.form(id, &e.key), e.form, "{}", e.key);
+            assert_eq!(fresh.readings(id), e.readings.as_slice());
+            let _ = built.entry(id);
+            assert_eq!(built.form(id, &e.key), e.form);
+        }
     }
 
     #[test]

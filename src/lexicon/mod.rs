@@ -485,6 +485,15 @@ impl Lexicon {
         }
     }
 
+    /// An entry's display spelling (the same as `entry(id).form`) when its
+    /// key is `key`, without building the entry of a compiled lexicon.
+    pub fn form(&self, id: usize, key: &str) -> String {
+        match &self.store {
+            Store::Owned(v) => v[id].form.clone(),
+            Store::Lazy(l) => l.form(id, key),
+        }
+    }
+
     /// An entry's readings (the same as `entry(id).readings`, without
     /// building the entry of a compiled lexicon).
     pub fn readings(&self, id: usize) -> &[Tags] {

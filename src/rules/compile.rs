@@ -1164,7 +1164,7 @@ fn expand_rule(
         let (mut left, mut right, mut before, mut after) = (left, right, before, after);
         for (n, sep) in separators.into_iter().enumerate() {
             // The last separator takes the strings, the others copies.
-            let mut take = |s: &mut String| {
+            let take = |s: &mut String| {
                 if n == last {
                     std::mem::take(s)
                 } else {
