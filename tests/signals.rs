@@ -4,7 +4,8 @@
 //!   quietly with exit status 0 and nothing on stderr.
 //! - Ctrl-C (SIGINT) during a batch: the record being written is finished
 //!   and flushed, then the process exits with status 130; every line written
-//!   so far is a complete record.
+//!   so far is a complete record. A streamed `split --all` listing stops
+//!   after the analysis being written.
 
 #![cfg(unix)]
 
@@ -245,4 +246,39 @@ fn closed_stdout_ends_quietly_for_every_format_and_subcommand() {
             args[4]
         );
     }
+}
+
+#[test]
+fn sigint_during_an_endless_all_listing_stops_after_the_analysis_written() {
+    // 2^50 analyses: the listing would never end, so the interrupt cannot
+    // wait for it; it stops after the analysis being written.
+    let mut child = spawn(&[
+        "split",
+        "--rules",
+        "demo",
+        "-f",
+        "jsonl",
+        "--all",
+        "--limit",
+        "1000000000000",
+    ]);
+    let mut stdin = child.stdin.take().unwrap();
+    stdin
+        .write_all(format!("{}\n", "tormek".repeat(50)).as_bytes())
+        .unwrap();
+    stdin.flush().unwrap();
+    let mut stdout = BufReader::new(child.stdout.take().unwrap());
+    let mut seen = String::new();
+    for _ in 0..2 {
+        stdout.read_line(&mut seen).unwrap();
+    }
+    interrupt(&child);
+    let mut rest = String::new();
+    stdout.read_to_string(&mut rest).unwrap();
+    let status = wait_bounded(&mut child, Duration::from_secs(60));
+    drop(stdin);
+    assert_eq!(status.code(), Some(130), "{status:?}");
+    seen.push_str(&rest);
+    assert!(assert_complete_jsonl(&seen) >= 2);
+    assert!(!seen.contains("\"listed\""), "the listing has no end");
 }
