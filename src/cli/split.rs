@@ -128,7 +128,8 @@ pub struct SplitArgs {
     #[arg(long, short = 'j', default_value_t = 1, value_name = "N")]
     pub jobs: usize,
     /// Distinct inputs remembered per worker, so repeated words (natural text
-    /// repeats heavily) are analysed once; 0 turns the cache off.
+    /// repeats heavily) are analysed once; 0 turns the cache off. Not used
+    /// by a streamed `--all` listing.
     #[arg(long, default_value_t = 100_000, value_name = "N")]
     pub cache: usize,
     /// Script of the input, for rule-sets written in a transliteration
