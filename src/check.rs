@@ -25,7 +25,7 @@ use crate::analyzer::Analyzer;
 use crate::lattice::ScopeFilter;
 use crate::lexicon::{condition_holds, conditions_hold, Lexicon, LexiconError, Tags};
 use crate::proof;
-use crate::rules::ast::{ChangeItem, ClassMember, RuleFile, Span, Statement};
+use crate::rules::ast::{ChangeItem, ClassMember, RuleFile, Span, Statement, LETTERS_KEY};
 use crate::rules::parse::parse_file;
 use crate::rules::{
     compile_named, CompileOptions, Condition, Diagnostic, Location, RuleSet, Scope, Separator,
@@ -244,6 +244,10 @@ pub fn condition_text(c: &Condition) -> String {
         Side::Left => "left",
         Side::Right => "right",
     };
+    if let Some(b) = c.bound {
+        let op = if b.at_least { ">=" } else { "<=" };
+        return format!("{side}.{} {op} {}", c.key, b.value);
+    }
     match &c.test {
         None => format!("{side}.{}", c.key),
         Some((equal, values)) => format!(
@@ -510,7 +514,7 @@ impl Candidates<'_> {
         self.pattern_readings.iter().any(|r| {
             conds
                 .iter()
-                .all(|c| c.key != "form" && condition_holds(c, "", r))
+                .all(|c| c.key != "form" && c.key != LETTERS_KEY && condition_holds(c, "", r))
         })
     }
 
@@ -536,6 +540,16 @@ impl Candidates<'_> {
         }
         if c.key == "form" {
             return "no lexicon entry has that form".to_string();
+        }
+        if c.key == LETTERS_KEY {
+            return "no lexicon entry has that many letters".to_string();
+        }
+        if let Some(b) = c.bound {
+            let op = if b.at_least { ">=" } else { "<=" };
+            return format!(
+                "no lexicon entry has a whole number `{}` {op} {}",
+                c.key, b.value
+            );
         }
         if !key_seen {
             return format!("no lexicon entry has a tag `{}`", c.key);
@@ -810,6 +824,18 @@ fn implies(a: &Condition, b: &Condition) -> bool {
     }
     if a.side != b.side || a.key != b.key {
         return false;
+    }
+    match (a.bound, b.bound) {
+        (Some(x), Some(y)) => {
+            return x.at_least == y.at_least
+                && if x.at_least {
+                    x.value >= y.value
+                } else {
+                    x.value <= y.value
+                };
+        }
+        (None, None) => {}
+        _ => return false,
     }
     match (&a.test, &b.test) {
         (Some((true, _)), None) => true,

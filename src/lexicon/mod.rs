@@ -677,6 +677,19 @@ pub fn condition_holds(condition: &Condition, key: &str, readings: &[Tags]) -> b
     fn value_of<'t>(r: &'t Tags, key: &str) -> Option<&'t str> {
         r.get(key).map(String::as_str)
     }
+    if let Some(bound) = condition.bound {
+        // `letters` counts the form's characters; another key's value is
+        // read as a whole number (a value that is not one does not hold).
+        if condition.key == crate::rules::ast::LETTERS_KEY {
+            return bound.admits(key.chars().count() as u64);
+        }
+        return readings.iter().any(|r| {
+            value_of(r, &condition.key).is_some_and(|v| {
+                v.split('|')
+                    .any(|x| x.parse::<u64>().is_ok_and(|n| bound.admits(n)))
+            })
+        });
+    }
     let is_form = condition.key == "form";
     let matches = |v: &str| match &condition.test {
         Some((_, values)) => v
@@ -717,8 +730,33 @@ mod tests {
         Condition {
             side: crate::rules::ast::Side::Left,
             key: key.into(),
+            bound: None,
             test: Some((equal, vec![value.into()])),
         }
+    }
+
+    fn bound(key: &str, at_least: bool, value: u64) -> Condition {
+        Condition {
+            side: crate::rules::ast::Side::Left,
+            key: key.into(),
+            bound: Some(crate::rules::ast::Bound { at_least, value }),
+            test: None,
+        }
+    }
+
+    #[test]
+    fn letters_bounds_count_characters_and_other_bounds_read_numbers() {
+        // `letters` counts characters, not bytes: `kyrka` and `själ` both qualify.
+        assert!(condition_holds(&bound("letters", true, 4), "själ", &[]));
+        assert!(condition_holds(&bound("letters", true, 5), "kyrka", &[]));
+        assert!(!condition_holds(&bound("letters", true, 4), "ska", &[]));
+        assert!(condition_holds(&bound("letters", false, 3), "ska", &[]));
+        assert!(!condition_holds(&bound("letters", false, 3), "själ", &[]));
+        // Another key: some reading's value, read as a whole number.
+        let r = vec![tags(&[("syllables", "2")]), tags(&[("syllables", "x")])];
+        assert!(condition_holds(&bound("syllables", true, 2), "w", &r));
+        assert!(!condition_holds(&bound("syllables", true, 3), "w", &r));
+        assert!(!condition_holds(&bound("syllables", false, 1), "w", &[]));
     }
 
     fn tags(pairs: &[(&str, &str)]) -> Tags {

@@ -150,17 +150,45 @@ pub enum Side {
     Right,
 }
 
-/// `left.pos = noun|adj`, `right.role != first`, `left.bound`
+/// `left.pos = noun|adj`, `right.role != first`, `left.bound`, `left.letters >= 4`
 #[derive(Debug, Clone, PartialEq, Eq, Hash)]
 pub struct Condition {
     /// Which word.
     pub side: Side,
-    /// The tag key (`form` is the lexicon form itself).
+    /// The tag key (`form` is the lexicon form itself, `letters` the number
+    /// of its characters).
     pub key: String,
-    /// `None`: the tag must be present; `Some((true, values))`: equal to one of
-    /// the values; `Some((false, values))`: equal to none of them.
+    /// `None`: the tag must be present (unless `bound` is set); `Some((true,
+    /// values))`: equal to one of the values; `Some((false, values))`: equal
+    /// to none of them.
     pub test: Option<(bool, Vec<String>)>,
+    /// `>= N` or `<= N` (then `test` is `None`): the value is a whole number
+    /// at least or at most N.
+    pub bound: Option<Bound>,
 }
+
+/// A numeric comparison of a condition: `>= N` or `<= N`.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash)]
+pub struct Bound {
+    /// `>=` (true) or `<=` (false).
+    pub at_least: bool,
+    /// N.
+    pub value: u64,
+}
+
+impl Bound {
+    /// Whether `n` meets the bound.
+    pub fn admits(self, n: u64) -> bool {
+        if self.at_least {
+            n >= self.value
+        } else {
+            n <= self.value
+        }
+    }
+}
+
+/// The condition key that stands for the number of characters of the form.
+pub const LETTERS_KEY: &str = "letters";
 
 /// `edge start|end when ...`
 #[derive(Debug, Clone)]

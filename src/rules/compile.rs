@@ -1490,6 +1490,36 @@ mod tests {
     }
 
     #[test]
+    fn numeric_bounds_parse_and_a_bound_that_is_not_a_number_is_an_error() {
+        let set = compile(
+            "t.jr",
+            "language x\nclass cons = k r\nrule drop: [c:cons] a + -> [c] |\n  when left.letters >= 4 and right.letters <= 9\n",
+            None,
+            &CompileOptions::default(),
+        )
+        .unwrap();
+        let rule = &set.rules[0];
+        assert_eq!(
+            rule.left_conditions[0].bound,
+            Some(crate::rules::ast::Bound {
+                at_least: true,
+                value: 4
+            })
+        );
+        assert_eq!(rule.right_conditions[0].bound.map(|b| b.value), Some(9));
+        // The class is expanded, the length is not: two instances.
+        assert_eq!(set.instances.len(), 2);
+        assert_eq!(
+            codes("language x\nrule j: + -> |\n  when left.letters >= many\n"),
+            vec!["bad-bound"]
+        );
+        assert_eq!(
+            codes("language x\nrule j: + -> |\n  when left.letters <= 3|4\n"),
+            vec!["bad-bound"]
+        );
+    }
+
+    #[test]
     fn top_level_fold_is_always_applied() {
         let set = compile(
             "t.jr",

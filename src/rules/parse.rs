@@ -23,7 +23,10 @@ pub fn parse_file(sources: &SourceMap, file: usize) -> (RuleFile, Vec<Diagnostic
         }
     };
     let mut statements = Vec::new();
-    let builder = Builder { file };
+    let builder = Builder {
+        file,
+        errors: Default::default(),
+    };
     for pair in file_pair.into_iter().flat_map(|p| p.into_inner()) {
         match pair.as_rule() {
             Rule::EOI => {}
@@ -34,6 +37,11 @@ pub fn parse_file(sources: &SourceMap, file: usize) -> (RuleFile, Vec<Diagnostic
             }
             _ => statements.push(builder.statement(pair)),
         }
+    }
+    for (span, message, hint) in builder.errors.into_inner() {
+        diagnostics.push(
+            Diagnostic::error("bad-bound", message, Some(sources.locate(span))).with_hint(hint),
+        );
     }
     (RuleFile { statements }, diagnostics)
 }
@@ -127,7 +135,7 @@ fn describe_expected(positives: &[Rule], found: Option<char>) -> (String, Option
     {
         Some("a line starts with one of: language, description, normalize, case, segments, include, class, set, variant, pattern, edge, rule, example".to_string())
     } else if positives.contains(&Rule::comparison) {
-        Some("a condition reads `left.KEY = VALUE`, `right.KEY != VALUE` or `left.KEY`".to_string())
+        Some("a condition reads `left.KEY = VALUE`, `right.KEY != VALUE`, `left.KEY` or `left.letters >= N`".to_string())
     } else {
         None
     };
@@ -181,7 +189,7 @@ fn rule_words(rule: Rule) -> Option<&'static str> {
         Rule::when_clause => "`when CONDITION`",
         Rule::condition => "a condition such as `left.pos = noun`",
         Rule::side => "`left` or `right`",
-        Rule::comparison => "`=` or `!=`",
+        Rule::comparison => "`=`, `!=`, `>=` or `<=`",
         Rule::value => "a tag value",
         Rule::scope => "`compound`, `phrase` or `any`",
         Rule::cost_clause
@@ -218,6 +226,9 @@ fn optional_description<'i>(
 
 struct Builder {
     file: usize,
+    /// Errors found while building (span, message, hint), beside the
+    /// grammar's own.
+    errors: std::cell::RefCell<Vec<(Span, String, String)>>,
 }
 
 impl Builder {
@@ -421,12 +432,43 @@ impl Builder {
                     .next()
                     .map(|p| p.as_str().to_string())
                     .unwrap_or_default();
-                let test = parts.next().map(|cmp| {
-                    let equal = cmp.as_str() == "=";
-                    (equal, parts.map(|v| v.as_str().to_string()).collect())
-                });
+                let mut test = None;
+                let mut bound = None;
+                if let Some(cmp) = parts.next() {
+                    let values: Vec<String> = parts.map(|v| v.as_str().to_string()).collect();
+                    match cmp.as_str() {
+                        op @ (">=" | "<=") => {
+                            let number = match values.as_slice() {
+                                [one] => one.parse::<u64>().ok(),
+                                _ => None,
+                            };
+                            match number {
+                                Some(value) => {
+                                    bound = Some(Bound {
+                                        at_least: op == ">=",
+                                        value,
+                                    })
+                                }
+                                None => self.errors.borrow_mut().push((
+                                    span,
+                                    format!(
+                                        "`{op}` compares with one whole number, not `{}`",
+                                        values.join("|")
+                                    ),
+                                    "e.g. `left.letters >= 4`".to_string(),
+                                )),
+                            }
+                        }
+                        op => test = Some((op == "=", values)),
+                    }
+                }
                 Spanned {
-                    value: Condition { side, key, test },
+                    value: Condition {
+                        side,
+                        key,
+                        test,
+                        bound,
+                    },
                     span,
                 }
             })

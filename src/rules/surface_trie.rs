@@ -36,14 +36,24 @@ impl ConditionIds {
         edge_start: &'c [super::Condition],
         edge_end: &'c [super::Condition],
     ) -> ConditionIds {
-        type Tests<'c> = Vec<(&'c str, &'c Option<(bool, Vec<String>)>)>;
+        type Tests<'c> = Vec<(
+            &'c str,
+            &'c Option<(bool, Vec<String>)>,
+            Option<super::ast::Bound>,
+        )>;
         let mut seen: rustc_hash::FxHashMap<Tests<'c>, u32> = Default::default();
         let mut uses_form = Vec::new();
         let mut id = |list: &'c [super::Condition]| -> u32 {
-            let tests: Tests = list.iter().map(|c| (c.key.as_str(), &c.test)).collect();
+            let tests: Tests = list
+                .iter()
+                .map(|c| (c.key.as_str(), &c.test, c.bound))
+                .collect();
             let next = seen.len() as u32;
             *seen.entry(tests).or_insert_with(|| {
-                uses_form.push(list.iter().any(|c| c.key == "form"));
+                uses_form.push(
+                    list.iter()
+                        .any(|c| c.key == "form" || c.key == super::ast::LETTERS_KEY),
+                );
                 next
             })
         };
