@@ -95,6 +95,9 @@ fn compound_types(rules: &RuleSet, lexicon: &Lexicon, n: usize) -> Vec<String> {
 }
 
 fn bench(c: &mut Criterion) {
+    // As the `juncture` binary does (see src/main.rs): freed memory is kept.
+    // SAFETY: sets a global option of the allocator; any value is valid.
+    unsafe { libmimalloc_sys::mi_option_set(15, -1) };
     let tokens: usize = std::env::var("JUNCTURE_BENCH_TOKENS")
         .ok()
         .and_then(|v| v.parse().ok())

@@ -17,7 +17,7 @@ use juncture::rules::RuleSet;
 use juncture::script::Script;
 use juncture::scripted::{self, Reading};
 use std::collections::HashMap;
-use std::sync::{Arc, OnceLock};
+use std::sync::Arc;
 use std::time::Duration;
 
 /// Split words or lines into their parts.
@@ -127,9 +127,11 @@ pub struct SplitArgs {
     /// Worker threads for a batch of lines (output keeps input order).
     #[arg(long, short = 'j', default_value_t = 1, value_name = "N")]
     pub jobs: usize,
-    /// Distinct inputs remembered per worker, so repeated words (natural text
-    /// repeats heavily) are analysed once; 0 turns the cache off. Not used
-    /// by a streamed `--all` listing.
+    /// Distinct inputs whose output is remembered per worker, so repeated
+    /// words (natural text repeats heavily) are analysed once; 0 turns the
+    /// cache off. Only the rendered output is kept; when the cache is full,
+    /// the words not seen since it was last half full are forgotten. Not
+    /// used by a streamed `--all` listing.
     #[arg(long, default_value_t = 100_000, value_name = "N")]
     pub cache: usize,
     /// Script of the input, for rule-sets written in a transliteration
@@ -213,7 +215,8 @@ pub fn run(args: SplitArgs) -> Result<i32, Failure> {
     // blocks of lines for several.
     let batch_size = if jobs == 1 { 1 } else { 256 * jobs };
     let mut batch: Vec<InputLine> = Vec::with_capacity(batch_size);
-    let mut caches: Vec<HashMap<String, Arc<Cached>>> = vec![HashMap::new(); jobs];
+    let mut caches: Vec<TypeCache<Arc<Cached>>> =
+        (0..jobs).map(|_| TypeCache::new(args.cache)).collect();
     for_each_input_with(&args.words, progress(&args), |line| {
         if let (Some(analysed), Ok(text)) = (analysed, &line) {
             let to = args.output_script.and_then(ScriptArg::script);
@@ -521,13 +524,13 @@ fn run_tokens(args: &SplitArgs, analyzer: &Analyzer, k: usize) -> Result<i32, Fa
     let failed = std::cell::Cell::new(0usize);
     // Rendered output (and whether it failed) of recent tokens: running
     // text repeats its words, and a token's lines depend on it alone.
-    let mut cache: HashMap<String, (String, bool)> = HashMap::new();
+    let mut cache: TypeCache<Arc<Cached>> = TypeCache::new(args.cache);
     let mut one = |token: &str, writer: &mut RecordWriter| -> Result<(), Failure> {
-        if let Some((rendered, failure)) = cache.get(token) {
-            if *failure {
+        if let Some(hit) = cache.get(token) {
+            if hit.failed {
                 failed.set(failed.get() + 1);
             }
-            return writer.write_rendered(rendered);
+            return writer.write_rendered(&hit.rendered);
         }
         let record = if args.greedy {
             TokenRecord {
@@ -557,12 +560,13 @@ fn run_tokens(args: &SplitArgs, analyzer: &Analyzer, k: usize) -> Result<i32, Fa
             || output::split_tsv(&record.record),
         )?;
         writer.write_rendered(&rendered)?;
-        if args.cache > 0 {
-            if cache.len() >= args.cache {
-                cache.clear();
-            }
-            cache.insert(token.to_string(), (rendered, failure));
-        }
+        cache.insert(
+            token,
+            Arc::new(Cached {
+                rendered,
+                failed: failure,
+            }),
+        );
         Ok(())
     };
     for_each_input_with(&args.words, progress(&args), |line| match line {
@@ -600,27 +604,63 @@ fn run_tokens(args: &SplitArgs, analyzer: &Analyzer, k: usize) -> Result<i32, Fa
     })
 }
 
-/// A record in the type cache, with its rendering once it has been written
-/// (a repeated word is neither analysed nor rendered again).
+/// An input's rendered output and whether it failed: what the type cache
+/// keeps (a repeated word is neither analysed nor rendered again, and the
+/// analysis itself is not kept).
 struct Cached {
-    record: SplitRecord,
-    rendered: OnceLock<String>,
+    rendered: String,
+    failed: bool,
 }
 
-impl Cached {
-    fn new(record: SplitRecord) -> Arc<Cached> {
-        Arc::new(Cached {
-            record,
-            rendered: OnceLock::new(),
-        })
+/// The rendered output of recent distinct inputs, at most `capacity` of
+/// them, in two generations: when the newer one is full, the older one is
+/// dropped and the newer one becomes it; a word found in the older one moves
+/// back to the newer. Frequent words (natural text repeats a few heavily)
+/// stay, and memory stays bounded. A capacity of 0 keeps nothing.
+struct TypeCache<V> {
+    capacity: usize,
+    newer: HashMap<String, V>,
+    older: HashMap<String, V>,
+}
+
+impl<V: Clone> TypeCache<V> {
+    fn new(capacity: usize) -> Self {
+        TypeCache {
+            capacity,
+            newer: HashMap::new(),
+            older: HashMap::new(),
+        }
+    }
+
+    fn get(&mut self, key: &str) -> Option<V> {
+        if let Some(v) = self.newer.get(key) {
+            return Some(v.clone());
+        }
+        let (key, v) = self.older.remove_entry(key)?;
+        self.insert_owned(key, v.clone());
+        Some(v)
+    }
+
+    fn insert(&mut self, key: &str, value: V) {
+        if self.capacity > 0 {
+            self.insert_owned(key.to_string(), value);
+        }
+    }
+
+    fn insert_owned(&mut self, key: String, value: V) {
+        if self.newer.len() >= self.capacity.div_ceil(2) {
+            self.older = std::mem::take(&mut self.newer);
+        }
+        self.newer.insert(key, value);
     }
 }
 
 /// Analyses a block of lines on `args.jobs` threads (each with its own type
-/// cache) and writes the records in input order. Returns how many failed.
+/// cache), renders them there, and writes them in input order. Returns how
+/// many failed.
 fn flush_batch(
     batch: &mut Vec<InputLine>,
-    caches: &mut [HashMap<String, Arc<Cached>>],
+    caches: &mut [TypeCache<Arc<Cached>>],
     analyzer: &Analyzer,
     args: &SplitArgs,
     k: usize,
@@ -630,29 +670,37 @@ fn flush_batch(
         return Ok(0);
     }
     let lines = std::mem::take(batch);
-    let one = |line: &InputLine, cache: &mut HashMap<String, Arc<Cached>>| -> Arc<Cached> {
-        match line {
-            Ok(text) => {
-                if let Some(hit) = cache.get(text) {
-                    return Arc::clone(hit);
-                }
-                let record = Cached::new(if args.greedy {
-                    analyzer.split_greedy(text)
-                } else {
-                    analyzer.split(text, k)
-                });
-                if args.cache > 0 {
-                    if cache.len() >= args.cache {
-                        cache.clear();
-                    }
-                    cache.insert(text.clone(), Arc::clone(&record));
-                }
-                record
-            }
-            Err(bad) => Cached::new(SplitRecord::failed(bad.lossy.clone(), bad.reason.clone())),
-        }
+    let render = |record: &SplitRecord| -> Result<Arc<Cached>, Failure> {
+        let rendered = writer.render(
+            record,
+            || output::split_text(record),
+            || output::split_tsv(record),
+        )?;
+        Ok(Arc::new(Cached {
+            rendered,
+            failed: record.is_failure(),
+        }))
     };
-    let records: Vec<Arc<Cached>> = if caches.len() <= 1 || lines.len() == 1 {
+    let one =
+        |line: &InputLine, cache: &mut TypeCache<Arc<Cached>>| -> Result<Arc<Cached>, Failure> {
+            match line {
+                Ok(text) => {
+                    if let Some(hit) = cache.get(text) {
+                        return Ok(hit);
+                    }
+                    let record = if args.greedy {
+                        analyzer.split_greedy(text)
+                    } else {
+                        analyzer.split(text, k)
+                    };
+                    let cached = render(&record)?;
+                    cache.insert(text, Arc::clone(&cached));
+                    Ok(cached)
+                }
+                Err(bad) => render(&SplitRecord::failed(bad.lossy.clone(), bad.reason.clone())),
+            }
+        };
+    let records: Vec<Result<Arc<Cached>, Failure>> = if caches.len() <= 1 || lines.len() == 1 {
         lines.iter().map(|l| one(l, &mut caches[0])).collect()
     } else {
         let chunk = lines.len().div_ceil(caches.len());
@@ -671,23 +719,39 @@ fn flush_batch(
         })
     };
     let mut failed = 0;
-    for cached in &records {
-        let record = &cached.record;
-        if record.is_failure() {
+    for cached in records {
+        let cached = cached?;
+        if cached.failed {
             failed += 1;
         }
-        let rendered = match cached.rendered.get() {
-            Some(r) => r,
-            None => {
-                let r = writer.render(
-                    record,
-                    || output::split_text(record),
-                    || output::split_tsv(record),
-                )?;
-                cached.rendered.get_or_init(|| r)
-            }
-        };
-        writer.write_rendered(rendered)?;
+        writer.write_rendered(&cached.rendered)?;
     }
     Ok(failed)
+}
+
+#[cfg(test)]
+mod tests {
+    use super::TypeCache;
+
+    #[test]
+    fn the_type_cache_keeps_frequent_words_and_stays_bounded() {
+        let mut cache = TypeCache::new(4);
+        cache.insert("der", 1);
+        cache.insert("und", 2);
+        // Full generation: it becomes the older one.
+        cache.insert("a", 3);
+        assert_eq!(cache.get("der"), Some(1)); // moved back to the newer
+        cache.insert("b", 4);
+        cache.insert("c", 5);
+        // `und` was not seen again: it is gone; `der` stays.
+        assert_eq!(cache.get("und"), None);
+        assert_eq!(cache.get("der"), Some(1));
+        for i in 0..100 {
+            cache.insert(&format!("w{i}"), i);
+            assert!(cache.newer.len() + cache.older.len() <= 4);
+        }
+        let mut off = TypeCache::new(0);
+        off.insert("x", 1);
+        assert_eq!(off.get("x"), None);
+    }
 }
