@@ -11,12 +11,12 @@ use juncture::analyzer::{
     self, index_tokens, Analyzer, Count, Passthrough, SplitHead, SplitRecord, SplitSummary,
     Streamed, TokenRecord,
 };
+use juncture::cache::TypeCache;
 use juncture::lexicon::Lexicon;
 use juncture::output::{self, Format, StreamedReading, Streamer, TermsOptions};
 use juncture::rules::RuleSet;
 use juncture::script::Script;
 use juncture::scripted::{self, Reading};
-use std::collections::HashMap;
 use std::sync::Arc;
 use std::time::Duration;
 
@@ -612,49 +612,6 @@ struct Cached {
     failed: bool,
 }
 
-/// The rendered output of recent distinct inputs, at most `capacity` of
-/// them, in two generations: when the newer one is full, the older one is
-/// dropped and the newer one becomes it; a word found in the older one moves
-/// back to the newer. Frequent words (natural text repeats a few heavily)
-/// stay, and memory stays bounded. A capacity of 0 keeps nothing.
-struct TypeCache<V> {
-    capacity: usize,
-    newer: HashMap<String, V>,
-    older: HashMap<String, V>,
-}
-
-impl<V: Clone> TypeCache<V> {
-    fn new(capacity: usize) -> Self {
-        TypeCache {
-            capacity,
-            newer: HashMap::new(),
-            older: HashMap::new(),
-        }
-    }
-
-    fn get(&mut self, key: &str) -> Option<V> {
-        if let Some(v) = self.newer.get(key) {
-            return Some(v.clone());
-        }
-        let (key, v) = self.older.remove_entry(key)?;
-        self.insert_owned(key, v.clone());
-        Some(v)
-    }
-
-    fn insert(&mut self, key: &str, value: V) {
-        if self.capacity > 0 {
-            self.insert_owned(key.to_string(), value);
-        }
-    }
-
-    fn insert_owned(&mut self, key: String, value: V) {
-        if self.newer.len() >= self.capacity.div_ceil(2) {
-            self.older = std::mem::take(&mut self.newer);
-        }
-        self.newer.insert(key, value);
-    }
-}
-
 /// Analyses a block of lines on `args.jobs` threads (each with its own type
 /// cache), renders them there, and writes them in input order. Returns how
 /// many failed.
@@ -727,31 +684,4 @@ fn flush_batch(
         writer.write_rendered(&cached.rendered)?;
     }
     Ok(failed)
-}
-
-#[cfg(test)]
-mod tests {
-    use super::TypeCache;
-
-    #[test]
-    fn the_type_cache_keeps_frequent_words_and_stays_bounded() {
-        let mut cache = TypeCache::new(4);
-        cache.insert("der", 1);
-        cache.insert("und", 2);
-        // Full generation: it becomes the older one.
-        cache.insert("a", 3);
-        assert_eq!(cache.get("der"), Some(1)); // moved back to the newer
-        cache.insert("b", 4);
-        cache.insert("c", 5);
-        // `und` was not seen again: it is gone; `der` stays.
-        assert_eq!(cache.get("und"), None);
-        assert_eq!(cache.get("der"), Some(1));
-        for i in 0..100 {
-            cache.insert(&format!("w{i}"), i);
-            assert!(cache.newer.len() + cache.older.len() <= 4);
-        }
-        let mut off = TypeCache::new(0);
-        off.insert("x", 1);
-        assert_eq!(off.get("x"), None);
-    }
 }
