@@ -7,7 +7,8 @@
 //!   frequency distribution (Zipf-shaped like running text), split with the
 //!   type cache;
 //! - `distinct-types`: distinct compound types made by joining pairs of
-//!   lexicon nouns forward with the German rules (cold: no cache);
+//!   lexicon nouns forward with the German rules, written as one word
+//!   (cold: no cache);
 //! - `bare-scan`: the baseline over the same distinct types;
 //! - `sanskrit-long-compound`: a constructed compound of 400+ characters,
 //!   exact count and top 10.
@@ -66,7 +67,8 @@ fn token_stream(lexicon: &Lexicon, n: usize) -> Vec<String> {
         .collect()
 }
 
-/// Distinct compound types: pairs of nouns joined by the rules' cheapest surface.
+/// Distinct compound types: pairs of nouns joined by the rules' cheapest
+/// closed surface (written as one word: no hyphen, no space).
 fn compound_types(rules: &RuleSet, lexicon: &Lexicon, n: usize) -> Vec<String> {
     let nouns: Vec<&str> = lexicon
         .entries()
@@ -86,8 +88,12 @@ fn compound_types(rules: &RuleSet, lexicon: &Lexicon, n: usize) -> Vec<String> {
         tries += 1;
         let a = nouns[(rng.next() as usize) % nouns.len()];
         let b = nouns[(rng.next() as usize) % nouns.len()];
-        let joined = juncture::proof::join(rules, lexicon, &[a, b], ScopeFilter::Compound, 1);
-        if let Some(j) = joined.results.first() {
+        let joined = juncture::proof::join(rules, lexicon, &[a, b], ScopeFilter::Compound, 20);
+        if let Some(j) = joined
+            .results
+            .iter()
+            .find(|j| !j.surface.contains(['-', ' ']))
+        {
             out.insert(j.surface.clone());
         }
     }
