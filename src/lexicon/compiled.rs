@@ -106,13 +106,17 @@ pub(super) struct LazyEntries {
     /// Entries built so far, in blocks of [`BLOCK`] allocated when one of
     /// their entries is first built (a slot for every entry at start-up
     /// would mean writing tens of megabytes before the first word).
-    cache: Vec<OnceLock<Box<[OnceLock<Entry>]>>>,
+    cache: Blocks<Entry>,
     /// Sets of readings decoded so far, in blocks like `cache`: conditions
     /// and ranking read an entry's tags without building the entry (whose
     /// key has to be walked out of the FST).
-    set_cache: Vec<OnceLock<Box<[OnceLock<Vec<Tags>>]>>>,
+    set_cache: Blocks<Vec<Tags>>,
     entries: usize,
 }
+
+/// Values built on first use, in blocks of [`BLOCK`], each block allocated
+/// when one of its values is first built.
+type Blocks<T> = Vec<OnceLock<Box<[OnceLock<T>]>>>;
 
 /// Entries per block of [`LazyEntries`]'s cache.
 const BLOCK: usize = 64;
