@@ -312,31 +312,15 @@ fn run_streamed(
         let mut batch: Vec<InputLine> = Vec::with_capacity(batch_size);
         let flush = |batch: &mut Vec<InputLine>, writer: &mut RecordWriter| {
             let lines = std::mem::take(batch);
-            let chunk = lines.len().div_ceil(jobs).max(1);
-            let listings: Vec<(String, bool)> = std::thread::scope(|scope| {
-                let handles: Vec<_> = lines
-                    .chunks(chunk)
-                    .map(|part| {
-                        scope.spawn(|| {
-                            part.iter()
-                                .map(|line| {
-                                    let mut out = String::new();
-                                    // Writing to a string cannot fail.
-                                    let failed = stream(line, &mut |piece: &str| {
-                                        out.push_str(piece);
-                                        Ok(())
-                                    })
-                                    .unwrap_or(true);
-                                    (out, failed)
-                                })
-                                .collect::<Vec<_>>()
-                        })
-                    })
-                    .collect();
-                handles
-                    .into_iter()
-                    .flat_map(|h| h.join().unwrap_or_default())
-                    .collect()
+            let listings = map_on_threads(&lines, &mut vec![(); jobs], |line, _| {
+                let mut out = String::new();
+                // Writing to a string cannot fail.
+                let failed = stream(line, &mut |piece: &str| {
+                    out.push_str(piece);
+                    Ok(())
+                })
+                .unwrap_or(true);
+                (out, failed)
             });
             let mut failed = 0;
             for (out, f) in &listings {
@@ -612,6 +596,35 @@ struct Cached {
     failed: bool,
 }
 
+/// `f` of every item, in order, with the items split into consecutive runs,
+/// one per worker state in `workers`, each run on a thread of its own (on
+/// this thread when there is one worker or one item).
+fn map_on_threads<I: Sync, W: Send, T: Send>(
+    items: &[I],
+    workers: &mut [W],
+    f: impl Fn(&I, &mut W) -> T + Sync,
+) -> Vec<T> {
+    if workers.len() <= 1 || items.len() <= 1 {
+        return match workers.first_mut() {
+            Some(w) => items.iter().map(|i| f(i, w)).collect(),
+            None => Vec::new(),
+        };
+    }
+    let chunk = items.len().div_ceil(workers.len());
+    let f = &f;
+    std::thread::scope(|scope| {
+        let handles: Vec<_> = items
+            .chunks(chunk)
+            .zip(workers.iter_mut())
+            .map(|(run, w)| scope.spawn(move || run.iter().map(|i| f(i, w)).collect::<Vec<_>>()))
+            .collect();
+        handles
+            .into_iter()
+            .flat_map(|h| h.join().unwrap_or_default())
+            .collect()
+    })
+}
+
 /// Analyses a block of lines on `args.jobs` threads (each with its own type
 /// cache), renders them there, and writes them in input order. Returns how
 /// many failed.
@@ -657,24 +670,7 @@ fn flush_batch(
                 Err(bad) => render(&SplitRecord::failed(bad.lossy.clone(), bad.reason.clone())),
             }
         };
-    let records: Vec<Result<Arc<Cached>, Failure>> = if caches.len() <= 1 || lines.len() == 1 {
-        lines.iter().map(|l| one(l, &mut caches[0])).collect()
-    } else {
-        let chunk = lines.len().div_ceil(caches.len());
-        std::thread::scope(|scope| {
-            let handles: Vec<_> = lines
-                .chunks(chunk)
-                .zip(caches.iter_mut())
-                .map(|(part, cache)| {
-                    scope.spawn(move || part.iter().map(|l| one(l, cache)).collect::<Vec<_>>())
-                })
-                .collect();
-            handles
-                .into_iter()
-                .flat_map(|h| h.join().unwrap_or_default())
-                .collect()
-        })
-    };
+    let records = map_on_threads(&lines, caches, one);
     let mut failed = 0;
     for cached in records {
         let cached = cached?;
