@@ -65,6 +65,24 @@ fn slow_writer(
     })
 }
 
+/// Reads two lines of the child's output, interrupts it, and returns all it
+/// wrote, once it has exited with status 130 (stdin stays open until then).
+fn interrupt_after_two_lines(child: &mut Child, stdin: ChildStdin) -> String {
+    let mut stdout = BufReader::new(child.stdout.take().unwrap());
+    let mut seen = String::new();
+    for _ in 0..2 {
+        stdout.read_line(&mut seen).unwrap();
+    }
+    interrupt(child);
+    let mut rest = String::new();
+    stdout.read_to_string(&mut rest).unwrap();
+    let status = wait_bounded(child, Duration::from_secs(60));
+    drop(stdin);
+    assert_eq!(status.code(), Some(130), "{status:?}");
+    seen.push_str(&rest);
+    seen
+}
+
 fn stderr_of(child: &mut Child) -> String {
     let mut s = String::new();
     child.stderr.take().unwrap().read_to_string(&mut s).unwrap();
@@ -156,18 +174,7 @@ fn sigint_during_a_long_record_finishes_it_first() {
     stdin.write_all(long.as_bytes()).unwrap();
     stdin.write_all(b"\ntor\n").unwrap();
     stdin.flush().unwrap();
-    let mut stdout = BufReader::new(child.stdout.take().unwrap());
-    let mut seen = String::new();
-    for _ in 0..2 {
-        stdout.read_line(&mut seen).unwrap();
-    }
-    interrupt(&child);
-    let mut rest = String::new();
-    stdout.read_to_string(&mut rest).unwrap();
-    let status = wait_bounded(&mut child, Duration::from_secs(60));
-    drop(stdin);
-    assert_eq!(status.code(), Some(130), "{status:?}");
-    seen.push_str(&rest);
+    let seen = interrupt_after_two_lines(&mut child, stdin);
     // Either the long record was under way and is complete, or the signal
     // came between records; the last line is never cut, and the line after
     // the long one is never started.
@@ -267,18 +274,7 @@ fn sigint_during_an_endless_all_listing_stops_after_the_analysis_written() {
         .write_all(format!("{}\n", "tormek".repeat(50)).as_bytes())
         .unwrap();
     stdin.flush().unwrap();
-    let mut stdout = BufReader::new(child.stdout.take().unwrap());
-    let mut seen = String::new();
-    for _ in 0..2 {
-        stdout.read_line(&mut seen).unwrap();
-    }
-    interrupt(&child);
-    let mut rest = String::new();
-    stdout.read_to_string(&mut rest).unwrap();
-    let status = wait_bounded(&mut child, Duration::from_secs(60));
-    drop(stdin);
-    assert_eq!(status.code(), Some(130), "{status:?}");
-    seen.push_str(&rest);
+    let seen = interrupt_after_two_lines(&mut child, stdin);
     assert!(assert_complete_jsonl(&seen) >= 2);
     assert!(!seen.contains("\"listed\""), "the listing has no end");
 }
