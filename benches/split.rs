@@ -14,7 +14,9 @@
 //!   exact count and top 10.
 //!
 //! Run: `cargo bench --bench split` (set JUNCTURE_BENCH_TOKENS to change the
-//! stream length; default 1,000,000 tokens, with 100,000 distinct compound types).
+//! stream length; default 1,000,000 tokens, with 100,000 distinct compound types;
+//! set JUNCTURE_BENCH_WRITE=DIR to also write the two German inputs to
+//! DIR/running-text.txt and DIR/compound-types.txt).
 
 /// The allocator of the `juncture` binary, so that the numbers are the CLI's.
 #[global_allocator]
@@ -111,6 +113,12 @@ fn bench(c: &mut Criterion) {
     if let Some((rules, lexicon)) = load("german") {
         let stream = token_stream(&lexicon, tokens);
         let types = compound_types(&rules, &lexicon, 100_000);
+        if let Ok(dir) = std::env::var("JUNCTURE_BENCH_WRITE") {
+            // The inputs as files, one token per line, for profiling the CLI.
+            let dir = std::path::Path::new(&dir);
+            let _ = std::fs::write(dir.join("running-text.txt"), stream.join("\n") + "\n");
+            let _ = std::fs::write(dir.join("compound-types.txt"), types.join("\n") + "\n");
+        }
         let mut g = c.benchmark_group("german");
         g.sample_size(10);
         g.throughput(Throughput::Elements(stream.len() as u64));

@@ -150,15 +150,15 @@ impl<'a> Analyzer<'a> {
     ) -> Result<SplitSummary, E> {
         let started = Instant::now();
         let lattice = self.lattice(input);
-        let count = search::count(&lattice, self.search.max_parts);
+        let search::PartCount { count, more_parts } =
+            search::count_within(&lattice, self.search.max_parts);
         let error = (lattice.truncated == Some(Truncation::InputLength))
             .then(|| Truncation::InputLength.describe().to_string());
         // The time limit covers the ranked search too: when building the
         // lattice used it up, nothing is listed (the count is still exact
         // for the lattice built).
         let timed_out = self.timeout.is_some_and(|t| started.elapsed() > t);
-        let parts_cut =
-            !timed_out && self.search.max_parts > 0 && search::count(&lattice, 0) > count;
+        let parts_cut = !timed_out && more_parts;
         let expected = lattice
             .truncated
             .or(timed_out.then_some(Truncation::Time))

@@ -191,6 +191,11 @@ pub struct Lattice {
     pub truncated: Option<Truncation>,
     /// Every node in topological order (start first, end last).
     pub order: Vec<NodeIndex>,
+    /// Most parts on any path, once the search has computed it.
+    pub(crate) most_parts: std::sync::OnceLock<usize>,
+    /// The edges out of every node as flat arrays, once the search has
+    /// built them.
+    pub(crate) adjacency: std::sync::OnceLock<crate::search::Adjacency>,
 }
 
 impl Lattice {
@@ -511,6 +516,8 @@ pub fn build_with(
             boundaries: vec![true; n + 1],
             text,
             truncated: Some(Truncation::InputLength),
+            most_parts: Default::default(),
+            adjacency: Default::default(),
         };
     }
     let bounds = rules.segmenter.boundaries(&chars);
@@ -579,6 +586,8 @@ pub fn build_with(
         text,
         boundaries: b.bounds,
         truncated,
+        most_parts: Default::default(),
+        adjacency: Default::default(),
     }
 }
 

@@ -92,37 +92,71 @@ fn topological(lattice: &Lattice) -> &[NodeIndex] {
     &lattice.order
 }
 
-/// The count of [`count`] in machine integers (per number of parts when
-/// `max_parts > 0`), or `None` as soon as a sum would overflow; then the
-/// [`BigUint`] count is used.
-fn count_small(lattice: &Lattice, order: &[NodeIndex], max_parts: usize) -> Option<u128> {
-    let g = &lattice.graph;
-    let width = max_parts + 1;
-    let mut counts = vec![0u128; g.node_count() * width];
-    if max_parts == 0 {
-        counts[lattice.end.index()] = 1;
-    } else {
-        counts[lattice.end.index() * width] = 1;
+/// Exact number of analyses (paths from start to end), optionally with at
+/// most `max_parts` parts.
+pub fn count(lattice: &Lattice, max_parts: usize) -> BigUint {
+    count_within(lattice, max_parts).count
+}
+
+/// The count of analyses within a part limit, and whether analyses beyond
+/// it exist: what [`count`] gives for `max_parts` and for no limit, in one
+/// pass over the lattice.
+#[derive(Debug, Clone, PartialEq, Eq)]
+pub struct PartCount {
+    /// Analyses with at most `max_parts` parts (all of them when 0).
+    pub count: BigUint,
+    /// Whether some analysis has more than `max_parts` parts.
+    pub more_parts: bool,
+}
+
+/// Counts the analyses with at most `max_parts` parts (0: no limit) and
+/// tells whether longer ones exist (see [`PartCount`]).
+pub fn count_within(lattice: &Lattice, max_parts: usize) -> PartCount {
+    let order = topological(lattice);
+    let limit = part_limit(lattice, order, max_parts);
+    if let Some((within, beyond)) = count_small(lattice, order, limit) {
+        return PartCount {
+            count: BigUint::from(within),
+            more_parts: beyond > 0,
+        };
     }
+    let count = count_big(lattice, order, limit);
+    let more_parts = limit > 0 && count_big(lattice, order, 0) > count;
+    PartCount { count, more_parts }
+}
+
+/// The counts of [`count_within`] in machine integers: the paths with at
+/// most `max_parts` parts and those with more (when `max_parts > 0`, one
+/// more column collects every path beyond the limit), or `None` as soon as
+/// a sum would overflow; then the [`BigUint`] count is used.
+fn count_small(lattice: &Lattice, order: &[NodeIndex], max_parts: usize) -> Option<(u128, u128)> {
+    let g = &lattice.graph;
+    let adjacency = Adjacency::of(lattice);
+    // Columns 0..=max_parts: exactly that many parts; the last: more.
+    let width = if max_parts == 0 { 1 } else { max_parts + 2 };
+    let mut counts = vec![0u128; g.node_count() * width];
+    counts[lattice.end.index() * width] = 1;
     let mut row = vec![0u128; width];
     for &u in order.iter().rev() {
         if u == lattice.end {
             continue;
         }
         row.iter_mut().for_each(|x| *x = 0);
-        for e in g.edges_directed(u, Direction::Outgoing) {
-            let v = &counts[e.target().index() * width..][..width];
+        for &(target, _, is_word) in adjacency.out(u) {
+            let v = &counts[target as usize * width..][..width];
             if max_parts == 0 {
                 row[0] = row[0].checked_add(v[0])?;
                 continue;
             }
-            match e.weight() {
-                Edge::Word(_) => {
-                    for r in 1..width {
+            match is_word {
+                true => {
+                    for r in 1..width - 1 {
                         row[r] = row[r].checked_add(v[r - 1])?;
                     }
+                    let more = &mut row[width - 1];
+                    *more = more.checked_add(v[width - 2])?.checked_add(v[width - 1])?;
                 }
-                Edge::Junction { .. } => {
+                false => {
                     for r in 0..width {
                         row[r] = row[r].checked_add(v[r])?;
                     }
@@ -131,20 +165,19 @@ fn count_small(lattice: &Lattice, order: &[NodeIndex], max_parts: usize) -> Opti
         }
         counts[u.index() * width..][..width].copy_from_slice(&row);
     }
-    counts[lattice.start.index() * width..][..width]
+    let start = &counts[lattice.start.index() * width..][..width];
+    if max_parts == 0 {
+        return Some((start[0], 0));
+    }
+    let within = start[..width - 1]
         .iter()
-        .try_fold(0u128, |a, &b| a.checked_add(b))
+        .try_fold(0u128, |a, &b| a.checked_add(b))?;
+    Some((within, start[width - 1]))
 }
 
-/// Exact number of analyses (paths from start to end), optionally with at
-/// most `max_parts` parts.
-pub fn count(lattice: &Lattice, max_parts: usize) -> BigUint {
-    let order = topological(lattice);
+/// The count with at most `max_parts` parts (0: no limit) in big integers.
+fn count_big(lattice: &Lattice, order: &[NodeIndex], max_parts: usize) -> BigUint {
     let g = &lattice.graph;
-    let max_parts = part_limit(lattice, order, max_parts);
-    if let Some(n) = count_small(lattice, order, max_parts) {
-        return BigUint::from(n);
-    }
     if max_parts == 0 {
         let mut counts: Vec<BigUint> = vec![BigUint::zero(); g.node_count()];
         counts[lattice.end.index()] = BigUint::one();
@@ -195,7 +228,7 @@ pub fn count(lattice: &Lattice, max_parts: usize) -> BigUint {
 /// keep a row of `max_parts + 1` values per node, so an enormous limit
 /// (`--max-parts 1000000`) must not be taken literally.
 fn part_limit(lattice: &Lattice, order: &[NodeIndex], max_parts: usize) -> usize {
-    if max_parts == 0 || max_parts >= max_parts_on_paths(lattice, order) {
+    if max_parts == 0 || max_parts >= most_parts(lattice, order) {
         0
     } else {
         max_parts
@@ -298,6 +331,43 @@ pub fn lexicalised_bonus(lexicon: &Lexicon, id: usize, options: &SearchOptions) 
     }
 }
 
+/// The edges out of every node in flat arrays (petgraph's own order), for
+/// the dynamic programs that run over every edge once per table.
+#[derive(Debug, Clone, Default)]
+pub(crate) struct Adjacency {
+    /// Per node, where its edges start in `edges` (one more at the end).
+    starts: Vec<u32>,
+    /// Target node, edge index, and whether it is a word edge.
+    edges: Vec<(u32, u32, bool)>,
+}
+
+impl Adjacency {
+    fn of(lattice: &Lattice) -> &Adjacency {
+        lattice.adjacency.get_or_init(|| {
+            let g = &lattice.graph;
+            let mut starts = Vec::with_capacity(g.node_count() + 1);
+            let mut edges = Vec::with_capacity(g.edge_count());
+            for u in g.node_indices() {
+                starts.push(edges.len() as u32);
+                edges.extend(g.edges_directed(u, Direction::Outgoing).map(|e| {
+                    (
+                        e.target().index() as u32,
+                        e.id().index() as u32,
+                        matches!(e.weight(), Edge::Word(_)),
+                    )
+                }));
+            }
+            starts.push(edges.len() as u32);
+            Adjacency { starts, edges }
+        })
+    }
+
+    fn out(&self, node: NodeIndex) -> &[(u32, u32, bool)] {
+        let i = node.index();
+        &self.edges[self.starts[i] as usize..self.starts[i + 1] as usize]
+    }
+}
+
 /// Best completion score from every node (per remaining part budget when
 /// layered): `h[node * width + budget]`. `w` is the weight of every edge.
 fn heuristic(
@@ -307,33 +377,41 @@ fn heuristic(
     layering: Layering,
     width: usize,
 ) -> Vec<f64> {
-    let g = &lattice.graph;
-    let mut h = vec![f64::NEG_INFINITY; g.node_count() * width];
+    let adjacency = Adjacency::of(lattice);
+    let mut h = vec![f64::NEG_INFINITY; lattice.graph.node_count() * width];
     let end = &mut h[lattice.end.index() * width..][..width];
     match layering {
         Layering::Exactly(_) => end[0] = 0.0,
         _ => end.iter_mut().for_each(|x| *x = 0.0),
     }
     let mut row = vec![f64::NEG_INFINITY; width];
+    let free = matches!(layering, Layering::Free);
     for &u in order.iter().rev() {
         if u == lattice.end {
             continue;
         }
         row.iter_mut().for_each(|x| *x = f64::NEG_INFINITY);
-        for e in g.edges_directed(u, Direction::Outgoing) {
-            let w = w[e.id().index()];
-            let v = &h[e.target().index() * width..][..width];
-            let is_word = matches!(e.weight(), Edge::Word(_));
-            for r in 0..width {
-                let from = match (layering, is_word) {
-                    (Layering::Free, _) => Some(0),
-                    (_, true) => r.checked_sub(1),
-                    (_, false) => Some(r),
-                };
-                if let Some(from) = from {
-                    let cand = w + v[from];
-                    if cand > row[r] {
-                        row[r] = cand;
+        for &(target, edge, is_word) in adjacency.out(u) {
+            let w = w[edge as usize];
+            let v = &h[target as usize * width..][..width];
+            // A word uses one part of the budget; a junction none.
+            if free {
+                let cand = w + v[0];
+                if cand > row[0] {
+                    row[0] = cand;
+                }
+            } else if is_word {
+                for (r, &rest) in row[1..].iter_mut().zip(&v[..width - 1]) {
+                    let cand = w + rest;
+                    if cand > *r {
+                        *r = cand;
+                    }
+                }
+            } else {
+                for (r, &rest) in row.iter_mut().zip(v) {
+                    let cand = w + rest;
+                    if cand > *r {
+                        *r = cand;
                     }
                 }
             }
@@ -568,9 +646,17 @@ impl Iterator for BestFirst<'_> {
     }
 }
 
+/// Most parts on any path, computed once per lattice.
+fn most_parts(lattice: &Lattice, order: &[NodeIndex]) -> usize {
+    *lattice
+        .most_parts
+        .get_or_init(|| max_parts_on_paths(lattice, order))
+}
+
 /// Most parts on any path (for the per-`n` runs of the frequency model).
 fn max_parts_on_paths(lattice: &Lattice, order: &[NodeIndex]) -> usize {
     let g = &lattice.graph;
+    let adjacency = Adjacency::of(lattice);
     let mut best: Vec<Option<usize>> = vec![None; g.node_count()];
     best[lattice.end.index()] = Some(0);
     for &u in order.iter().rev() {
@@ -578,9 +664,9 @@ fn max_parts_on_paths(lattice: &Lattice, order: &[NodeIndex]) -> usize {
             continue;
         }
         let mut m: Option<usize> = None;
-        for e in g.edges_directed(u, Direction::Outgoing) {
-            if let Some(v) = best[e.target().index()] {
-                let c = v + usize::from(matches!(e.weight(), Edge::Word(_)));
+        for &(target, _, is_word) in adjacency.out(u) {
+            if let Some(v) = best[target as usize] {
+                let c = v + usize::from(is_word);
                 m = Some(m.map_or(c, |x| x.max(c)));
             }
         }
@@ -725,7 +811,7 @@ pub fn paths<'l>(
         }
         Ranking::Frequency => {
             let order = topological(lattice);
-            let mut most = max_parts_on_paths(lattice, order);
+            let mut most = most_parts(lattice, order);
             if options.max_parts > 0 {
                 most = most.min(options.max_parts);
             }
@@ -824,6 +910,38 @@ mod tests {
         let expected = (200..=300).fold(BigUint::zero(), |acc, p| acc + binomial(p, 400 - p));
         assert!(expected.bits() > 128);
         assert_eq!(got, expected);
+    }
+
+    /// `a` and `aa` as words over `n` letters, counted under a part limit.
+    fn fibonacci_within(n: usize, max_parts: usize) -> PartCount {
+        let rules = compile_named("plain", &CompileOptions::default()).unwrap();
+        let mut b = LexiconBuilder::new(&rules.normalizer);
+        b.add_tsv("t", b"a\naa\n").unwrap();
+        let lexicon = b.build().unwrap();
+        let lattice = build(&rules, &lexicon, &"a".repeat(n), &LatticeOptions::default());
+        count_within(&lattice, max_parts)
+    }
+
+    #[test]
+    fn the_count_within_a_limit_says_whether_longer_analyses_exist() {
+        // 10 letters: 5 to 10 parts (89 readings in all); at most 6 parts: 16.
+        let within = fibonacci_within(10, 6);
+        assert_eq!(within.count, BigUint::from(16u32));
+        assert!(within.more_parts);
+        // The limit is the longest path: nothing beyond it.
+        let all = fibonacci_within(10, 10);
+        assert_eq!(all.count, BigUint::from(89u32));
+        assert!(!all.more_parts);
+        assert_eq!(fibonacci_within(10, 0), all);
+        // 4 letters (2 to 4 parts) with at most 3: one reading (a+a+a+a) is beyond.
+        let within = fibonacci_within(4, 3);
+        assert_eq!(within.count, BigUint::from(4u32));
+        assert!(within.more_parts);
+        // Beyond 128 bits, both answers come from big integers.
+        let big = fibonacci_within(400, 300);
+        assert!(big.count.bits() > 128);
+        assert!(big.more_parts);
+        assert!(!fibonacci_within(400, 400).more_parts);
     }
 
     /// The plain rule-set (concatenation only) with a lexicon of TSV lines.
