@@ -14,7 +14,7 @@
 //! analysis; every edge pair moves forward on the surface, so the graph is
 //! acyclic.
 
-use crate::lexicon::{conditions_hold, Lexicon, State, Tags};
+use crate::lexicon::{conditions_hold, Cursor, Lexicon, StepCache, Tags};
 use crate::normalize::MappedText;
 use crate::rules::{Condition, RuleSet, Scope, Separator};
 use petgraph::graph::{DiGraph, EdgeIndex, NodeIndex};
@@ -359,8 +359,11 @@ struct Builder<'a> {
     end: NodeIndex,
     min_part: usize,
     truncated: Option<Truncation>,
-    /// Scratch stack of the left-end walk.
-    stack: Vec<(u32, State<'a>)>,
+    /// Scratch stack of the left-end walk: left-trie node, index cursor
+    /// and the entry ending there.
+    stack: Vec<(u32, Cursor, Option<usize>)>,
+    /// Recent steps of the lexicon index (this thread's, see [`STEP_CACHE`]).
+    steps: StepCache,
     /// What the lexicon walks found, per (position, carried start number):
     /// a range of `found`.
     walks: IntMap<(usize, u32), (usize, usize, usize, usize)>,
@@ -471,6 +474,12 @@ impl ConditionMemo {
     }
 }
 
+thread_local! {
+    /// The steps of the lexicon index remembered on this thread, for the next
+    /// lattice built here (taken by a build, put back when it is done).
+    static STEP_CACHE: std::cell::Cell<StepCache> = std::cell::Cell::new(StepCache::default());
+}
+
 /// Builds the lattice of `input`.
 pub fn build(rules: &RuleSet, lexicon: &Lexicon, input: &str, options: &LatticeOptions) -> Lattice {
     build_with(
@@ -553,6 +562,11 @@ pub fn build_with(
             .unwrap_or(rules.settings.min_part_length),
         truncated: None,
         stack: Vec::new(),
+        steps: {
+            let mut steps = STEP_CACHE.with(std::cell::Cell::take);
+            lexicon.reset_step_cache(&mut steps);
+            steps
+        },
         walks: IntMap::default(),
         found: Vec::with_capacity(2 * room),
         walk_ids: Vec::with_capacity(4 * room),
@@ -576,6 +590,7 @@ pub fn build_with(
             b.expand(part, pos);
         }
     }
+    STEP_CACHE.with(|c| c.set(std::mem::take(&mut b.steps)));
     let truncated = b.truncated;
     let order = b.topological_order();
     Lattice {
@@ -800,17 +815,25 @@ impl<'a> Builder<'a> {
         let n = self.chars.len();
         let lexicon = self.lexicon;
         let rules = self.rules;
-        let Some(cursor) = lexicon.step_str(lexicon.root(), carried) else {
-            return;
-        };
-        let mut state = lexicon.at(cursor);
+        let mut steps = std::mem::take(&mut self.steps);
+        let mut cursor = lexicon.root();
+        let mut entry = lexicon.entry_at(cursor);
+        for &byte in carried.as_bytes() {
+            match lexicon.step_cached(&mut steps, cursor, byte) {
+                Some(next) => (cursor, entry) = next,
+                None => {
+                    self.steps = steps;
+                    return;
+                }
+            }
+        }
         let mut stack = std::mem::take(&mut self.stack);
         let mut q = pos;
-        loop {
-            self.walk_ids.push(state.entry());
+        'walk: loop {
+            self.walk_ids.push(entry);
             if self.bounds[q] {
                 if q == n {
-                    if let Some(id) = state.entry() {
+                    if let Some(id) = entry {
                         self.found.push(Found {
                             q,
                             after: n,
@@ -826,11 +849,11 @@ impl<'a> Builder<'a> {
                     }
                     let surface = rules.surface_trie.surface(surface_id);
                     stack.clear();
-                    stack.push((0, state));
-                    while let Some((at, here)) = stack.pop() {
+                    stack.push((0, cursor, entry));
+                    while let Some((at, here, here_entry)) = stack.pop() {
                         let left = &surface.lefts[at as usize];
                         if let Some((from, to)) = left.group {
-                            if let Some(id) = here.entry() {
+                            if let Some(id) = here_entry {
                                 self.found.push(Found {
                                     q,
                                     after,
@@ -840,8 +863,10 @@ impl<'a> Builder<'a> {
                             }
                         }
                         for &(byte, child) in left.children.iter().rev() {
-                            if let Some(next) = here.next(byte) {
-                                stack.push((child, next));
+                            if let Some((next, next_entry)) =
+                                lexicon.step_cached(&mut steps, here, byte)
+                            {
+                                stack.push((child, next, next_entry));
                             }
                         }
                     }
@@ -850,13 +875,17 @@ impl<'a> Builder<'a> {
             if q == n {
                 break;
             }
-            match state.next_char(self.chars[q]) {
-                Some(next) => state = next,
-                None => break,
+            let mut buf = [0u8; 4];
+            for &byte in self.chars[q].encode_utf8(&mut buf).as_bytes() {
+                match lexicon.step_cached(&mut steps, cursor, byte) {
+                    Some(next) => (cursor, entry) = next,
+                    None => break 'walk,
+                }
             }
             q += 1;
         }
         self.stack = stack;
+        self.steps = steps;
     }
 
     /// The word edge for entry `id` read from `part` to the end of the input.

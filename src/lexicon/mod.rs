@@ -12,12 +12,14 @@
 pub mod bundled;
 pub mod compiled;
 pub mod sanskrit;
+mod step_cache;
 
 use crate::normalize::Normalizer;
 use crate::rules::{Condition, RuleSet};
 use compiled::{IndexBytes, LazyEntries};
 use fst::raw::{CompiledAddr, Output};
 use std::collections::{BTreeMap, BTreeSet, HashMap};
+pub use step_cache::StepCache;
 
 /// Largest frequency an entry keeps (larger ones, and sums of duplicates
 /// that overflow, are capped): the compiled format stores frequencies as
@@ -306,6 +308,8 @@ pub fn parse_tags(text: &str) -> Result<Tags, String> {
 /// A compiled lexicon: entries plus an FST from normalized form to entry.
 #[derive(Debug, Clone)]
 pub struct Lexicon {
+    /// A number of its own in this process (see [`StepCache`]).
+    id: u64,
     index: fst::Map<IndexBytes>,
     store: Store,
     total_frequency: f64,
@@ -399,6 +403,7 @@ impl Lexicon {
             .flat_map(|e| e.readings.iter().flat_map(|r| r.keys().cloned()))
             .collect();
         Lexicon {
+            id: step_cache::next_lexicon_id(),
             index,
             store: Store::Owned(entries),
             total_frequency,
@@ -415,6 +420,7 @@ impl Lexicon {
         fingerprint: String,
     ) -> Lexicon {
         Lexicon {
+            id: step_cache::next_lexicon_id(),
             index,
             store: Store::Lazy(entries),
             total_frequency,
