@@ -73,8 +73,9 @@ pub struct ScoredPath {
     pub parts: usize,
 }
 
-/// Nodes in topological order (start first). The lattice is acyclic by
-/// construction; debug builds check that every edge goes forward.
+/// The live nodes (on some path from start to end) in topological order
+/// (start first). The lattice is acyclic by construction; debug builds
+/// check that every edge goes forward.
 fn topological(lattice: &Lattice) -> &[NodeIndex] {
     if cfg!(debug_assertions) {
         let mut rank = vec![0usize; lattice.graph.node_count()];
@@ -89,7 +90,7 @@ fn topological(lattice: &Lattice) -> &[NodeIndex] {
             rank[a.index()] < rank[b.index()]
         }));
     }
-    &lattice.order
+    &Adjacency::of(lattice).order
 }
 
 /// Exact number of analyses (paths from start to end), optionally with at
@@ -279,6 +280,28 @@ impl EdgeTerms {
 }
 
 impl Weights<'_> {
+    /// The terms of every edge, computed for the live ones only (no search
+    /// reads a dead edge's weight: its target cannot reach the end).
+    fn live_terms(&self, lattice: &Lattice) -> Vec<EdgeTerms> {
+        let live = &Adjacency::of(lattice).live;
+        lattice
+            .graph
+            .edge_weights()
+            .zip(live)
+            .map(|(e, &live)| {
+                if live {
+                    self.terms(e)
+                } else {
+                    EdgeTerms {
+                        term: f64::NEG_INFINITY,
+                        bonus: None,
+                        divided: false,
+                    }
+                }
+            })
+            .collect()
+    }
+
     /// The terms of an edge, computed once per lattice.
     fn terms(&self, edge: &Edge) -> EdgeTerms {
         match edge {
@@ -331,40 +354,81 @@ pub fn lexicalised_bonus(lexicon: &Lexicon, id: usize, options: &SearchOptions) 
     }
 }
 
-/// The edges out of every node in flat arrays (petgraph's own order), for
-/// the dynamic programs that run over every edge once per table.
+/// The part of the lattice the search works on: the nodes and edges on
+/// some path from the start to the end (most of a lattice is dead ends:
+/// words after which no junction or word follows), with every node's live
+/// out-edges in flat arrays, in petgraph's own order.
 #[derive(Debug, Clone, Default)]
 pub(crate) struct Adjacency {
-    /// Per node, where its edges start in `edges` (one more at the end).
-    starts: Vec<u32>,
+    /// Per node, the range of its live edges in `edges`.
+    spans: Vec<(u32, u32)>,
     /// Target node, edge index, and whether it is a word edge.
     edges: Vec<(u32, u32, bool)>,
+    /// The live nodes in topological order (start first).
+    order: Vec<NodeIndex>,
+    /// Per edge: whether it is live.
+    live: Vec<bool>,
 }
 
 impl Adjacency {
     fn of(lattice: &Lattice) -> &Adjacency {
         lattice.adjacency.get_or_init(|| {
             let g = &lattice.graph;
-            let mut starts = Vec::with_capacity(g.node_count() + 1);
-            let mut edges = Vec::with_capacity(g.edge_count());
-            for u in g.node_indices() {
-                starts.push(edges.len() as u32);
-                edges.extend(g.edges_directed(u, Direction::Outgoing).map(|e| {
-                    (
-                        e.target().index() as u32,
-                        e.id().index() as u32,
-                        matches!(e.weight(), Edge::Word(_)),
-                    )
-                }));
+            let order = &lattice.order;
+            let mut reached = vec![false; g.node_count()];
+            reached[lattice.start.index()] = true;
+            for &u in order {
+                if reached[u.index()] {
+                    for e in g.edges_directed(u, Direction::Outgoing) {
+                        reached[e.target().index()] = true;
+                    }
+                }
             }
-            starts.push(edges.len() as u32);
-            Adjacency { starts, edges }
+            let mut ends = vec![false; g.node_count()];
+            ends[lattice.end.index()] = reached[lattice.end.index()];
+            for &u in order.iter().rev() {
+                if reached[u.index()]
+                    && g.edges_directed(u, Direction::Outgoing)
+                        .any(|e| ends[e.target().index()])
+                {
+                    ends[u.index()] = true;
+                }
+            }
+            let mut spans = vec![(0u32, 0u32); g.node_count()];
+            let mut edges = Vec::new();
+            let mut live = vec![false; g.edge_count()];
+            let mut live_order = Vec::new();
+            for &u in order {
+                let i = u.index();
+                if !ends[i] {
+                    continue;
+                }
+                let from = edges.len() as u32;
+                live_order.push(u);
+                for e in g.edges_directed(u, Direction::Outgoing) {
+                    if ends[e.target().index()] {
+                        live[e.id().index()] = true;
+                        edges.push((
+                            e.target().index() as u32,
+                            e.id().index() as u32,
+                            matches!(e.weight(), Edge::Word(_)),
+                        ));
+                    }
+                }
+                spans[i] = (from, edges.len() as u32);
+            }
+            Adjacency {
+                spans,
+                edges,
+                order: live_order,
+                live,
+            }
         })
     }
 
     fn out(&self, node: NodeIndex) -> &[(u32, u32, bool)] {
-        let i = node.index();
-        &self.edges[self.starts[i] as usize..self.starts[i + 1] as usize]
+        let (from, to) = self.spans[node.index()];
+        &self.edges[from as usize..to as usize]
     }
 }
 
@@ -593,7 +657,7 @@ impl Iterator for BestFirst<'_> {
             return None;
         }
         let lattice = self.lattice;
-        let g = &lattice.graph;
+        let adjacency = Adjacency::of(lattice);
         let (layering, width) = (self.layering, self.width);
         while let Some(item) = self.heap.pop() {
             self.pops += 1;
@@ -610,8 +674,8 @@ impl Iterator for BestFirst<'_> {
                     parts: item.parts,
                 });
             }
-            for e in g.edges_directed(item.node, Direction::Outgoing) {
-                let is_word = matches!(e.weight(), Edge::Word(_));
+            for &(target, edge, is_word) in adjacency.out(item.node) {
+                let target = NodeIndex::new(target as usize);
                 let budget = match layering {
                     Layering::Free => 0,
                     _ if is_word => match item.budget.checked_sub(1) {
@@ -620,21 +684,22 @@ impl Iterator for BestFirst<'_> {
                     },
                     _ => item.budget,
                 };
-                let rest = completion(&self.h, layering, width, e.target(), budget);
+                let rest = completion(&self.h, layering, width, target, budget);
                 if !rest.is_finite() {
                     continue;
                 }
-                let gnew = item.g + self.w[e.id().index()];
+                let edge = EdgeIndex::new(edge as usize);
+                let gnew = item.g + self.w[edge.index()];
                 self.seq += 1;
                 self.links.push(PathLink {
-                    edge: e.id(),
+                    edge,
                     prev: item.path,
                 });
                 self.heap.push(Item {
                     priority: gnew + rest,
                     seq: self.seq,
                     g: gnew,
-                    node: e.target(),
+                    node: target,
                     budget,
                     parts: item.parts + usize::from(is_word),
                     path: Some(self.links.len() - 1),
@@ -801,11 +866,7 @@ pub fn paths<'l>(
             } else {
                 Layering::AtMost(limit)
             };
-            let terms: Vec<EdgeTerms> = lattice
-                .graph
-                .edge_weights()
-                .map(|e| weights.terms(e))
-                .collect();
+            let terms = weights.live_terms(lattice);
             let search = BestFirst::new(lattice, &terms, 1.0, layering, options.max_pops, true);
             (terms, vec![search])
         }
@@ -817,11 +878,7 @@ pub fn paths<'l>(
             }
             // What does not depend on the number of parts is computed once.
             let terms: Vec<EdgeTerms> = if most > 0 {
-                lattice
-                    .graph
-                    .edge_weights()
-                    .map(|e| weights.terms(e))
-                    .collect()
+                weights.live_terms(lattice)
             } else {
                 Vec::new()
             };
@@ -910,6 +967,41 @@ mod tests {
         let expected = (200..=300).fold(BigUint::zero(), |acc, p| acc + binomial(p, 400 - p));
         assert!(expected.bits() > 128);
         assert_eq!(got, expected);
+    }
+
+    #[test]
+    fn the_search_skips_dead_ends() {
+        let rules = compile_named("plain", &CompileOptions::default()).unwrap();
+        let mut b = LexiconBuilder::new(&rules.normalizer);
+        b.add_tsv("t", b"ab\nabc\ncd\n").unwrap();
+        let lexicon = b.build().unwrap();
+        // abc reads on to a part at 3 where no word starts: a dead end.
+        let lattice = build(&rules, &lexicon, "abcd", &LatticeOptions::default());
+        let live = Adjacency::of(&lattice);
+        assert!(live.order.len() < lattice.graph.node_count());
+        assert_eq!(live.order.first(), Some(&lattice.start));
+        assert_eq!(live.order.last(), Some(&lattice.end));
+        let words: Vec<&str> = lattice
+            .graph
+            .edge_indices()
+            .filter(|e| live.live[e.index()])
+            .filter_map(|e| lattice.word(e).map(|w| w.key.as_str()))
+            .collect();
+        assert_eq!(words, ["ab", "cd"]);
+        assert_eq!(count(&lattice, 0), BigUint::one());
+        // Nothing reaches the end: nothing is live.
+        let lattice = build(&rules, &lexicon, "abcx", &LatticeOptions::default());
+        assert!(Adjacency::of(&lattice).order.is_empty());
+        assert_eq!(count(&lattice, 0), BigUint::zero());
+        assert!(best(
+            &lattice,
+            &rules,
+            &lexicon,
+            &SearchOptions::from_rules(&rules),
+            3
+        )
+        .0
+        .is_empty());
     }
 
     /// `a` and `aa` as words over `n` letters, counted under a part limit.
