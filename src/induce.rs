@@ -234,6 +234,7 @@ fn kinds_of(c: &Change) -> Vec<(Kind, Option<(String, String)>)> {
         && c.sep == Sep::None
         && c.after.is_empty()
         && c.before == [c.lc.clone()]
+        && is_segment(&c.lc)
     {
         out.push((Kind::Geminate, None));
     }
@@ -242,6 +243,7 @@ fn kinds_of(c: &Change) -> Vec<(Kind, Option<(String, String)>)> {
         && c.before.is_empty()
         && c.after.is_empty()
         && c.sep == Sep::None
+        && is_segment(&c.rc)
     {
         out.push((Kind::Degeminate, None));
     }
@@ -250,6 +252,8 @@ fn kinds_of(c: &Change) -> Vec<(Kind, Option<(String, String)>)> {
         && c.after.is_empty()
         && c.ls != c.before
         && c.sep != Sep::Merged
+        && is_segment(&c.ls[0])
+        && is_segment(&c.before[0])
     {
         out.push((
             Kind::LeftMap {
@@ -264,6 +268,8 @@ fn kinds_of(c: &Change) -> Vec<(Kind, Option<(String, String)>)> {
         && c.before.is_empty()
         && c.rp != c.after
         && c.sep != Sep::Merged
+        && is_segment(&c.rp[0])
+        && is_segment(&c.after[0])
     {
         out.push((
             Kind::RightMap {
@@ -845,7 +851,9 @@ impl<'a> Builder<'a> {
         } else {
             &self.right_initials
         };
-        if set.is_empty() || &set == all {
+        // A class can only hold segments (letters): a context of anything
+        // else (a hyphen read as a part) is left unrestricted.
+        if set.is_empty() || &set == all || !set.iter().all(|m| is_segment(m)) {
             return None;
         }
         Some(self.class_for(&set))
@@ -1200,6 +1208,17 @@ fn best_included_pair(
         }
     }
     found.map(|(_, _, a, b, c)| (a, b, c))
+}
+
+/// Whether `s` can be a class member (a segment of the rule language:
+/// letters, combining marks, digits and the apostrophes and dot).
+fn is_segment(s: &str) -> bool {
+    !s.is_empty()
+        && s.chars().all(|c| {
+            c.is_alphanumeric()
+                || unicode_normalization::char::is_combining_mark(c)
+                || matches!(c, '\'' | '’' | 'ʼ' | '.')
+        })
 }
 
 /// Letters as rule-language text: quoted when they spell a keyword or hold

@@ -256,3 +256,16 @@ mod never_panics {
         }
     }
 }
+
+#[test]
+fn a_hyphen_read_as_a_part_gives_rules_that_compile() {
+    // A hyphen between two parts cannot be a class member: the context it
+    // stands in is left unrestricted.
+    let induction = induce("n+-+k\tn-nk\n", &InduceOptions::default()).unwrap();
+    assert!(
+        !induction.text.contains("class c1 = -"),
+        "{}",
+        induction.text
+    );
+    compile("t", &induction.text, None, &CompileOptions::default()).unwrap();
+}
