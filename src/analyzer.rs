@@ -110,6 +110,18 @@ impl<'a> Analyzer<'a> {
         lattice::build_with(self.rules, self.lexicon, input, &options, &self.memo)
     }
 
+    /// The lattice of one input with the words that lead to a dead end kept
+    /// (see [`LatticeOptions::keep_dead_ends`]), for showing why an
+    /// analysis is missing.
+    pub fn lattice_with_dead_ends(&self, input: &str) -> lattice::Lattice {
+        let mut options = self.lattice.clone();
+        options.keep_dead_ends = true;
+        if let Some(t) = self.timeout {
+            options.deadline = Some(Instant::now() + t);
+        }
+        lattice::build_with(self.rules, self.lexicon, input, &options, &self.memo)
+    }
+
     /// Analyses one input: exact count and the `top` best analyses, each verified.
     pub fn split(&self, input: &str, top: usize) -> SplitRecord {
         let mut analyses = Vec::new();

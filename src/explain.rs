@@ -639,7 +639,7 @@ pub fn explain(
 ) -> Explanation {
     let rules = analyzer.rules;
     let lexicon = analyzer.lexicon;
-    let lattice = analyzer.lattice(input);
+    let lattice = analyzer.lattice_with_dead_ends(input);
     let g = &lattice.graph;
     let (fwd, bwd) = path_counts(&lattice);
     let count = search::count(&lattice, analyzer.search.max_parts);
@@ -1445,7 +1445,7 @@ fn breakdown_text(b: &Breakdown, out: &mut String) {
 pub fn to_dot(analyzer: &Analyzer, input: &str) -> String {
     let rules = analyzer.rules;
     let lexicon = analyzer.lexicon;
-    let lattice = analyzer.lattice(input);
+    let lattice = analyzer.lattice_with_dead_ends(input);
     let g = &lattice.graph;
     let (paths, _) = search::best(&lattice, rules, lexicon, &analyzer.search, 1);
     let best: HashSet<EdgeIndex> = paths

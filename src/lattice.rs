@@ -56,6 +56,11 @@ pub struct LatticeOptions {
     pub deadline: Option<Instant>,
     /// Override of the rule-set's `min-part-length`.
     pub min_part_length: Option<usize>,
+    /// Build the words whose junction leads to a part that cannot be read on
+    /// from (no lexicon word, long enough, starts there and ends the input or
+    /// meets a junction). No analysis goes through them; `explain` shows
+    /// them as dead ends. Off by default: such words are not added.
+    pub keep_dead_ends: bool,
 }
 
 impl Default for LatticeOptions {
@@ -66,6 +71,7 @@ impl Default for LatticeOptions {
             max_edges: 2_000_000,
             deadline: None,
             min_part_length: None,
+            keep_dead_ends: false,
         }
     }
 }
@@ -367,6 +373,9 @@ struct Builder<'a> {
     /// What the lexicon walks found, per (position, carried start number):
     /// a range of `found`.
     walks: IntMap<(usize, u32), (usize, usize, usize, usize)>,
+    /// Whether a part at (position, carried start number) can be read on
+    /// from (see `Builder::may_continue`).
+    finish: IntMap<(usize, u32), bool>,
     found: Vec<Found>,
     /// Per walk, from its position on: the entry (if any) that the carried
     /// start and the letters read so far spell, `walk_ids[start + (q - pos)]`
@@ -568,6 +577,7 @@ pub fn build_with(
             steps
         },
         walks: IntMap::default(),
+        finish: IntMap::default(),
         found: Vec::with_capacity(2 * room),
         walk_ids: Vec::with_capacity(4 * room),
         memo,
@@ -760,16 +770,7 @@ impl<'a> Builder<'a> {
         // Part nodes at one position with the same carried start (they
         // differ in the rule whose right conditions are pending) read the
         // same words: the lexicon is walked once for all of them.
-        let (from, to, ids, ids_end) = match self.walks.get(&(pos, part.right)) {
-            Some(&range) => range,
-            None => {
-                let (from, ids) = (self.found.len(), self.walk_ids.len());
-                self.walk(part.carried, pos);
-                let range = (from, self.found.len(), ids, self.walk_ids.len());
-                self.walks.insert((pos, part.right), range);
-                range
-            }
-        };
+        let (from, to, ids, ids_end) = self.walk_range(pos, part.right, part.carried);
         let rules = self.rules;
         let mut at = None;
         for i in from..to {
@@ -804,6 +805,71 @@ impl<'a> Builder<'a> {
         if part.carried.is_empty() {
             self.pattern_words(part.node, pos, part.pending);
         }
+    }
+
+    /// The walk of the lexicon from a part at `pos` with the carried start
+    /// `carried` (numbered `right`): its range of `found` and of `walk_ids`,
+    /// walked the first time it is asked for.
+    fn walk_range(
+        &mut self,
+        pos: usize,
+        right: u32,
+        carried: &str,
+    ) -> (usize, usize, usize, usize) {
+        if let Some(&range) = self.walks.get(&(pos, right)) {
+            return range;
+        }
+        let (from, ids) = (self.found.len(), self.walk_ids.len());
+        self.walk(carried, pos);
+        let range = (from, self.found.len(), ids, self.walk_ids.len());
+        self.walks.insert((pos, right), range);
+        range
+    }
+
+    /// Whether a part at `pos` with the carried start `carried` (numbered
+    /// `right`) can be read on from: the lexicon walk from it finds a word
+    /// long enough that ends the input, or ends before a junction instance of
+    /// the allowed scopes, or an open-class pattern could start there. Only
+    /// this first step is looked at (the parts after that word are not
+    /// walked: that would walk parts no edge leads to), and no condition is
+    /// tested, so a part that can may still turn out a dead end; one that
+    /// cannot is one for sure. Remembered per part.
+    fn may_continue(&mut self, pos: usize, right: u32, carried: &'a str) -> bool {
+        if let Some(&known) = self.finish.get(&(pos, right)) {
+            return known;
+        }
+        let verdict = self.pattern_may_start(pos, carried) || {
+            let (from, to, _, _) = self.walk_range(pos, right, carried);
+            let carried_chars = carried.chars().count();
+            let rules = self.rules;
+            self.found[from..to].iter().any(|found| {
+                // The word's length in characters, as the part-length test
+                // of the edges counts it.
+                let read = carried_chars + (found.q - pos);
+                let Some((surface, from, to)) = found.group else {
+                    return pos == 0 || read >= self.min_part;
+                };
+                let group =
+                    &rules.surface_trie.surface(surface).instances[from as usize..to as usize];
+                let left_chars = group
+                    .first()
+                    .map_or(0, |&i| rules.instances[i].left.chars().count());
+                read + left_chars >= self.min_part
+                    && group
+                        .iter()
+                        .any(|&i| self.options.scope.allows(rules.instances[i].scope))
+            })
+        };
+        self.finish.insert((pos, right), verdict);
+        verdict
+    }
+
+    /// Whether an open-class pattern could start a part here (see
+    /// [`Builder::pattern_words`]).
+    fn pattern_may_start(&self, pos: usize, carried: &str) -> bool {
+        !self.rules.patterns.is_empty()
+            && carried.is_empty()
+            && (pos == 0 || matches!(self.chars[pos - 1], ' ' | '-'))
     }
 
     /// Walks the lexicon from `carried` along the input from `pos` and
@@ -987,6 +1053,15 @@ impl<'a> Builder<'a> {
             {
                 continue;
             }
+            if !self.options.keep_dead_ends
+                && !self.may_continue(
+                    span.after,
+                    rules.surface_trie.right_id(inst_id),
+                    &inst.right,
+                )
+            {
+                continue;
+            }
             let pending_next = (!rule.right_conditions.is_empty()).then_some(inst.rule);
             let edge = WordEdge {
                 source,
@@ -1148,5 +1223,41 @@ impl<'a> Builder<'a> {
                 }
             }
         }
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    /// `ab`+`cd`, and `abc`, after which no word starts: a dead end.
+    #[test]
+    fn words_into_dead_ends_are_left_out_unless_kept() {
+        let rules = crate::rules::compile_named("plain", &Default::default()).unwrap();
+        let mut b = crate::lexicon::LexiconBuilder::new(&rules.normalizer);
+        b.add_tsv("t", b"ab\nabc\ncd\nx\n").unwrap();
+        let lexicon = b.build().unwrap();
+        let words = |lattice: &Lattice| -> Vec<String> {
+            let mut w: Vec<String> = lattice
+                .graph
+                .edge_indices()
+                .filter_map(|e| lattice.word(e).map(|w| w.key.clone()))
+                .collect();
+            w.sort();
+            w
+        };
+        let pruned = build(&rules, &lexicon, "abcd", &LatticeOptions::default());
+        assert_eq!(words(&pruned), ["ab", "cd"]);
+        let keep = LatticeOptions {
+            keep_dead_ends: true,
+            ..LatticeOptions::default()
+        };
+        // Kept: also `cd` before an empty junction at the end of the input.
+        let kept = build(&rules, &lexicon, "abcd", &keep);
+        assert_eq!(words(&kept), ["ab", "abc", "cd", "cd"]);
+        // Only the first step is looked ahead: after `abc`, `x` starts a
+        // word (which itself leads nowhere), so `abc` is built.
+        let kept = build(&rules, &lexicon, "abcxd", &LatticeOptions::default());
+        assert!(words(&kept).contains(&"abc".to_string()));
     }
 }

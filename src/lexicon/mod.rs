@@ -890,6 +890,31 @@ impl Lexicon {
         }
         found
     }
+
+    /// [`bare_scan`](Self::bare_scan) with the index steps remembered in
+    /// `cache`, as the lattice walks them (see [`StepCache`]); the baseline
+    /// the benchmarks report the full analysis against.
+    pub fn bare_scan_cached(&self, cache: &mut StepCache, chars: &[char]) -> usize {
+        self.reset_step_cache(cache);
+        let mut found = 0;
+        let mut buf = [0u8; 4];
+        for start in 0..chars.len() {
+            let mut cursor = self.root();
+            'scan: for &c in &chars[start..] {
+                let mut entry = None;
+                for &byte in c.encode_utf8(&mut buf).as_bytes() {
+                    match self.step_cached(cache, cursor, byte) {
+                        Some((next, e)) => (cursor, entry) = (next, e),
+                        None => break 'scan,
+                    }
+                }
+                if entry.is_some() {
+                    found += 1;
+                }
+            }
+        }
+        found
+    }
 }
 
 #[cfg(test)]
@@ -904,5 +929,9 @@ mod bare_scan_tests {
         let chars: Vec<char> = "arbeitsamt".chars().collect();
         // arbeit, arbeitsamt (at 0), ts (at 5), amt (at 7)
         assert_eq!(lex.bare_scan(&chars), 4);
+        let mut cache = StepCache::default();
+        for _ in 0..2 {
+            assert_eq!(lex.bare_scan_cached(&mut cache, &chars), 4);
+        }
     }
 }
