@@ -483,10 +483,62 @@ impl ConditionMemo {
     }
 }
 
+/// What one lattice build needs besides the lattice itself, kept on its
+/// thread for the next build (emptied, with its room): the index steps
+/// remembered, and the builder's tables, which a batch would otherwise
+/// allocate and grow again for every input.
+#[derive(Default)]
+struct Scratch {
+    steps: StepCache,
+    matches: Vec<(u32, usize)>,
+    match_start: Vec<usize>,
+    joints: IntMap<(usize, usize)>,
+    parts: IntMap<(usize, u32, Option<usize>)>,
+    order_keys: Vec<(usize, u8)>,
+    stack: Vec<(u32, Cursor, Option<usize>)>,
+    walks: IntMap<(usize, u32), (usize, usize, usize, usize)>,
+    finish: IntMap<(usize, u32), bool>,
+    found: Vec<Found>,
+    walk_ids: Vec<Option<usize>>,
+    key: String,
+}
+
+/// Most entries the tables of a [`Scratch`] may hold to be kept for the
+/// next build (a huge input's tables are dropped, the index steps kept).
+const SCRATCH_KEPT: usize = 1 << 16;
+
+impl Scratch {
+    fn clear(&mut self) {
+        self.matches.clear();
+        self.match_start.clear();
+        self.joints.clear();
+        self.parts.clear();
+        self.order_keys.clear();
+        self.stack.clear();
+        self.walks.clear();
+        self.finish.clear();
+        self.found.clear();
+        self.walk_ids.clear();
+        self.key.clear();
+    }
+
+    fn size(&self) -> usize {
+        self.matches.capacity()
+            + self.match_start.capacity()
+            + self.joints.capacity()
+            + self.parts.capacity()
+            + self.order_keys.capacity()
+            + self.walks.capacity()
+            + self.finish.capacity()
+            + self.found.capacity()
+            + self.walk_ids.capacity()
+    }
+}
+
 thread_local! {
-    /// The steps of the lexicon index remembered on this thread, for the next
-    /// lattice built here (taken by a build, put back when it is done).
-    static STEP_CACHE: std::cell::Cell<StepCache> = std::cell::Cell::new(StepCache::default());
+    /// The scratch of the last lattice built on this thread, for the next
+    /// (taken by a build, put back when it is done).
+    static SCRATCH: std::cell::Cell<Scratch> = std::cell::Cell::new(Scratch::default());
 }
 
 /// Builds the lattice of `input`.
@@ -546,42 +598,38 @@ pub fn build_with(
                 .is_some_and(|c| c.is_uppercase())
         })
         .collect();
+    let mut scratch = SCRATCH.with(std::cell::Cell::take);
+    scratch.clear();
+    lexicon.reset_step_cache(&mut scratch.steps);
+    scratch.order_keys.extend([(0, 1), (usize::MAX, 3)]);
     let mut b = Builder {
         rules,
         lexicon,
         options,
-        matches: Vec::with_capacity(2 * room),
-        match_start: Vec::with_capacity(n + 2),
+        matches: scratch.matches,
+        match_start: scratch.match_start,
         chars,
         original_upper,
         bounds,
         graph,
-        joints: IntMap::default(),
-        parts: IntMap::default(),
+        joints: scratch.joints,
+        parts: scratch.parts,
         parts_at: vec![Vec::new(); n + 1],
-        order_keys: {
-            let mut keys = Vec::with_capacity(3 * room + 2);
-            keys.extend([(0, 1), (usize::MAX, 3)]);
-            keys
-        },
+        order_keys: scratch.order_keys,
         start,
         end,
         min_part: options
             .min_part_length
             .unwrap_or(rules.settings.min_part_length),
         truncated: None,
-        stack: Vec::new(),
-        steps: {
-            let mut steps = STEP_CACHE.with(std::cell::Cell::take);
-            lexicon.reset_step_cache(&mut steps);
-            steps
-        },
-        walks: IntMap::default(),
-        finish: IntMap::default(),
-        found: Vec::with_capacity(2 * room),
-        walk_ids: Vec::with_capacity(4 * room),
+        stack: scratch.stack,
+        steps: scratch.steps,
+        walks: scratch.walks,
+        finish: scratch.finish,
+        found: scratch.found,
+        walk_ids: scratch.walk_ids,
         memo,
-        key: String::new(),
+        key: scratch.key,
     };
     b.parts.insert((0, 0, None), start);
     b.parts_at[0].push(PendingPart {
@@ -600,9 +648,29 @@ pub fn build_with(
             b.expand(part, pos);
         }
     }
-    STEP_CACHE.with(|c| c.set(std::mem::take(&mut b.steps)));
     let truncated = b.truncated;
     let order = b.topological_order();
+    let mut kept = Scratch {
+        steps: b.steps,
+        matches: b.matches,
+        match_start: b.match_start,
+        joints: b.joints,
+        parts: b.parts,
+        order_keys: b.order_keys,
+        stack: b.stack,
+        walks: b.walks,
+        finish: b.finish,
+        found: b.found,
+        walk_ids: b.walk_ids,
+        key: b.key,
+    };
+    if kept.size() > SCRATCH_KEPT {
+        kept = Scratch {
+            steps: kept.steps,
+            ..Scratch::default()
+        };
+    }
+    SCRATCH.with(|c| c.set(kept));
     Lattice {
         order,
         graph: b.graph,
@@ -914,6 +982,19 @@ impl<'a> Builder<'a> {
                         continue; // nothing read and nothing on the surface: no progress
                     }
                     let surface = rules.surface_trie.surface(surface_id);
+                    if let [only] = surface.lefts.as_slice() {
+                        // Every instance has the empty left end: the entry
+                        // read so far is the word.
+                        if let (Some((from, to)), Some(id)) = (only.group, entry) {
+                            self.found.push(Found {
+                                q,
+                                after,
+                                id,
+                                group: Some((surface_id, from, to)),
+                            });
+                        }
+                        continue;
+                    }
                     stack.clear();
                     stack.push((0, cursor, entry));
                     while let Some((at, here, here_entry)) = stack.pop() {
