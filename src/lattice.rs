@@ -347,6 +347,13 @@ struct Builder<'a> {
     lexicon: &'a Lexicon,
     options: &'a LatticeOptions,
     chars: Vec<char>,
+    /// The normalized input as text, and where each character starts in it
+    /// (one more at the end), so a word's letters are copied as one slice.
+    text: String,
+    char_bytes: Vec<usize>,
+    /// The entry whose key is empty, if any (read at the start of a walk
+    /// with nothing carried).
+    root_entry: Option<usize>,
     original_upper: Vec<bool>,
     bounds: Vec<bool>,
     /// Surfaces found at each position: `matches[match_start[q]..match_start[q + 1]]`
@@ -602,10 +609,20 @@ pub fn build_with(
     scratch.clear();
     lexicon.reset_step_cache(&mut scratch.steps);
     scratch.order_keys.extend([(0, 1), (usize::MAX, 3)]);
+    let mut char_bytes = Vec::with_capacity(n + 1);
+    let mut normalized = String::with_capacity(n);
+    for &c in &chars {
+        char_bytes.push(normalized.len());
+        normalized.push(c);
+    }
+    char_bytes.push(normalized.len());
     let mut b = Builder {
         rules,
         lexicon,
         options,
+        text: normalized,
+        char_bytes,
+        root_entry: lexicon.entry_at(lexicon.root()),
         matches: scratch.matches,
         match_start: scratch.match_start,
         chars,
@@ -875,6 +892,11 @@ impl<'a> Builder<'a> {
         }
     }
 
+    /// The normalized input's characters `from..to` as text.
+    fn letters(&self, from: usize, to: usize) -> &str {
+        &self.text[self.char_bytes[from]..self.char_bytes[to]]
+    }
+
     /// The walk of the lexicon from a part at `pos` with the carried start
     /// `carried` (numbered `right`): its range of `found` and of `walk_ids`,
     /// walked the first time it is asked for.
@@ -951,7 +973,7 @@ impl<'a> Builder<'a> {
         let rules = self.rules;
         let mut steps = std::mem::take(&mut self.steps);
         let mut cursor = lexicon.root();
-        let mut entry = lexicon.entry_at(cursor);
+        let mut entry = self.root_entry;
         for &byte in carried.as_bytes() {
             match lexicon.step_cached(&mut steps, cursor, byte) {
                 Some(next) => (cursor, entry) = next,
@@ -1043,7 +1065,7 @@ impl<'a> Builder<'a> {
         let mut key_buf = std::mem::take(&mut self.key);
         key_buf.clear();
         key_buf.push_str(part.carried);
-        key_buf.extend(&self.chars[span.pos..span.q]);
+        key_buf.push_str(self.letters(span.pos, span.q));
         let key = key_buf.as_str();
         let whole = node == self.start;
         if self.aligned(key, span.carried_chars, 0)
@@ -1092,7 +1114,7 @@ impl<'a> Builder<'a> {
         let mut key_buf = std::mem::take(&mut self.key);
         key_buf.clear();
         key_buf.push_str(part.carried);
-        key_buf.extend(&self.chars[span.pos..span.q]);
+        key_buf.push_str(self.letters(span.pos, span.q));
         key_buf.push_str(left);
         let key = key_buf.as_str();
         let source = PartSource::Entry(id);

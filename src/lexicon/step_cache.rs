@@ -17,8 +17,8 @@ use super::{Cursor, Lexicon};
 use fst::raw::Output;
 use std::sync::atomic::{AtomicU64, Ordering};
 
-/// log2 of the number of slots (32 bytes each: 1 MiB).
-const SLOT_BITS: u32 = 15;
+/// log2 of the number of slots (32 bytes each: 2 MiB).
+const SLOT_BITS: u32 = 16;
 /// Marks an empty slot, a missing transition or a node where no entry ends.
 const NONE: u64 = u64::MAX;
 
