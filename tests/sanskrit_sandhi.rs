@@ -1132,3 +1132,30 @@ fn user_stems_expand_into_a_lexicon_for_split() {
     );
     let _ = std::fs::remove_dir_all(&dir);
 }
+
+/// A vṛddhi surface reads back two ways (ai: a/ā + e or + ai; au: + o or
+/// + au). The lexicon has no frequencies, so the rules' costs decide: the
+/// common word-initial e and o come first (eva, not the verb form aiva).
+#[test]
+fn vrddhi_reads_back_the_commoner_vowel_first() {
+    let (rules, lexicon) = setup();
+    let analyzer = Analyzer::new(&rules, &lexicon);
+    let best = |word: &str| -> Vec<String> {
+        let r = analyzer.split(word, 1);
+        r.analyses
+            .first()
+            .map(|a| a.parts.iter().map(|p| p.form.clone()).collect())
+            .unwrap_or_default()
+    };
+    for (word, parts) in [
+        ("tathaiva", ["tathā", "eva"]),
+        ("naiva", ["na", "eva"]),
+        ("caiva", ["ca", "eva"]),
+        ("vanauṣadhiḥ", ["vana", "oṣadhiḥ"]),
+        // With no e- or o-word to read, the diphthong itself.
+        ("devaiśvaryam", ["deva", "aiśvaryam"]),
+        ("mahauṣadham", ["mahā", "auṣadham"]),
+    ] {
+        assert_eq!(best(word), parts, "{word}");
+    }
+}
