@@ -154,6 +154,9 @@ impl Analysis {
 }
 
 fn merge_tags(readings: &[Tags]) -> BTreeMap<String, String> {
+    if let [only] = readings {
+        return only.clone();
+    }
     let mut out: BTreeMap<String, Vec<String>> = BTreeMap::new();
     for r in readings {
         for (k, v) in r {
@@ -184,7 +187,7 @@ pub fn analysis(
         match &lattice.graph[e] {
             Edge::Word(w) => {
                 let mut scratch = Vec::new();
-                let readings = part_readings(rules, lexicon, w.source, &mut scratch).to_vec();
+                let readings = part_readings(rules, lexicon, w.source, &mut scratch);
                 let (form, source) = match w.source {
                     PartSource::Entry(id) => (lexicon.form(id, &w.key), "lexicon".to_string()),
                     PartSource::Pattern(p) => (
@@ -197,9 +200,9 @@ pub fn analysis(
                     surface: String::new(),
                     start: next_start,
                     end: w.end,
-                    tags: merge_tags(&readings),
+                    tags: merge_tags(readings),
                     readings: if readings.len() > 1 {
-                        readings
+                        readings.to_vec()
                     } else {
                         Vec::new()
                     },
@@ -322,9 +325,9 @@ pub enum VerifyError {
 }
 
 /// Applies junction instances forward to normalized words.
-pub fn apply(
+pub fn apply<W: AsRef<str>>(
     rules: &RuleSet,
-    words: &[String],
+    words: &[W],
     instances: &[usize],
 ) -> Result<String, VerifyError> {
     if words.is_empty() || instances.len() + 1 != words.len() {
@@ -334,47 +337,56 @@ pub fn apply(
         });
     }
     let seg = &rules.segmenter;
-    let mut out = words[0].clone();
+    let mut out = words[0].as_ref().to_string();
     let mut claimed = 0usize; // chars of the current word taken by the junction before it
     for (i, &id) in instances.iter().enumerate() {
         let inst = &rules.instances[id];
-        let rule = rules.rules[inst.rule].name.clone();
-        let word = &words[i];
-        let next = &words[i + 1];
+        let rule = || rules.rules[inst.rule].name.clone();
+        let word = words[i].as_ref();
+        let next = words[i + 1].as_ref();
         let word_len = word.chars().count();
         let left_len = inst.left.chars().count();
         let right_len = inst.right.chars().count();
         if !word.ends_with(&inst.left) {
             return Err(VerifyError::LeftEnd {
                 index: i,
-                rule,
-                word: word.clone(),
+                rule: rule(),
+                word: word.to_string(),
                 expected: inst.left.clone(),
             });
         }
         if !next.starts_with(&inst.right) {
             return Err(VerifyError::RightStart {
                 index: i,
-                rule,
-                word: next.clone(),
+                rule: rule(),
+                word: next.to_string(),
                 expected: inst.right.clone(),
             });
         }
         if word_len < claimed + left_len {
-            return Err(VerifyError::Overlap { word: word.clone() });
+            return Err(VerifyError::Overlap {
+                word: word.to_string(),
+            });
         }
-        if word_len == claimed + left_len && inst.surface().is_empty() {
-            return Err(VerifyError::NoTrace { word: word.clone() });
+        let no_surface = inst.surface_left.is_empty()
+            && inst.separator.text().is_empty()
+            && inst.surface_right.is_empty();
+        if word_len == claimed + left_len && no_surface {
+            return Err(VerifyError::NoTrace {
+                word: word.to_string(),
+            });
         }
         if !seg.is_boundary(word, word_len - left_len) || !seg.is_boundary(next, right_len) {
             return Err(VerifyError::Segment {
                 index: i,
-                rule,
-                word: word.clone(),
+                rule: rule(),
+                word: word.to_string(),
             });
         }
         out.truncate(out.len() - inst.left.len());
-        out.push_str(&inst.surface());
+        out.push_str(&inst.surface_left);
+        out.push_str(inst.separator.text());
+        out.push_str(&inst.surface_right);
         out.push_str(&next[inst.right.len()..]);
         claimed = right_len;
     }
@@ -394,7 +406,7 @@ pub fn verify_normalized(
     analysis: &Analysis,
     expected: &str,
 ) -> Result<(), VerifyError> {
-    let words: Vec<String> = analysis.parts.iter().map(|p| p.key.clone()).collect();
+    let words: Vec<&str> = analysis.parts.iter().map(|p| p.key.as_str()).collect();
     let instances: Vec<usize> = analysis.junctions.iter().map(|j| j.instance).collect();
     let got = apply(rules, &words, &instances)?;
     if got == expected {
