@@ -92,7 +92,19 @@ impl Normalizer {
         };
         let mut chars = Vec::with_capacity(original.len());
         let mut origin = Vec::with_capacity(original.len());
+        // An ASCII letter is its own normal form; folding it is at most
+        // lowercasing, unless a fold replaces an ASCII letter.
+        let ascii_plain = !self.folds.keys().any(char::is_ascii);
         for (i, &c) in original.iter().enumerate() {
+            if ascii_plain && c.is_ascii() {
+                chars.push(if self.fold_case {
+                    c.to_ascii_lowercase()
+                } else {
+                    c
+                });
+                origin.push(i);
+                continue;
+            }
             let before = chars.len();
             match self.form {
                 NormalForm::Nfd => {
@@ -263,6 +275,21 @@ mod tests {
         let m = n.map("Straße");
         assert_eq!(m.normalized(), "strasse");
         assert_eq!(m.original_slice(4, 6), "ß");
+    }
+
+    #[test]
+    fn a_fold_of_an_ascii_letter_still_applies() {
+        let mut n = Normalizer {
+            fold_case: true,
+            ..Normalizer::default()
+        };
+        n.folds.insert('q', "kw".into());
+        let m = n.map("Quai");
+        assert_eq!(m.normalized(), "kwuai");
+        assert_eq!(m.origin, [0, 0, 1, 2, 3]);
+        // Without case folding, ASCII capitals stay.
+        let plain = Normalizer::default();
+        assert_eq!(plain.normalize("ÄrgerAmt"), "ÄrgerAmt");
     }
 
     #[test]
