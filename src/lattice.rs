@@ -1111,6 +1111,18 @@ impl<'a> Builder<'a> {
         if span.carried_chars + (span.q - span.pos) + left_chars < self.min_part {
             return;
         }
+        // Every part after this group already known to be a dead end: no
+        // edge (what is not known yet is worked out below, for an edge
+        // that passes the other checks).
+        if !self.options.keep_dead_ends
+            && group.iter().all(|&inst_id| {
+                self.finish
+                    .get(&(span.after, rules.surface_trie.right_id(inst_id)))
+                    == Some(&false)
+            })
+        {
+            return;
+        }
         let mut key_buf = std::mem::take(&mut self.key);
         key_buf.clear();
         key_buf.push_str(part.carried);
