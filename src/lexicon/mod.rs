@@ -310,6 +310,8 @@ pub fn parse_tags(text: &str) -> Result<Tags, String> {
 pub struct Lexicon {
     /// A number of its own in this process (see [`StepCache`]).
     id: u64,
+    /// Address of the index's root node (found once: finding it decodes it).
+    root: CompiledAddr,
     index: fst::Map<IndexBytes>,
     store: Store,
     total_frequency: f64,
@@ -404,6 +406,7 @@ impl Lexicon {
             .collect();
         Lexicon {
             id: step_cache::next_lexicon_id(),
+            root: index.as_fst().root().addr(),
             index,
             store: Store::Owned(entries),
             total_frequency,
@@ -421,6 +424,7 @@ impl Lexicon {
     ) -> Lexicon {
         Lexicon {
             id: step_cache::next_lexicon_id(),
+            root: index.as_fst().root().addr(),
             index,
             store: Store::Lazy(entries),
             total_frequency,
@@ -546,7 +550,7 @@ impl Lexicon {
     /// The state before any character.
     pub fn root(&self) -> Cursor {
         Cursor {
-            addr: self.index.as_fst().root().addr(),
+            addr: self.root,
             output: 0,
         }
     }
