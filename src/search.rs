@@ -768,6 +768,9 @@ pub struct RankedPaths<'l> {
     /// The search whose path was taken last: it is advanced at the next
     /// call, not before (so nothing is searched that is not asked for).
     taken: Option<usize>,
+    /// The one analysis of a lattice that has only one (found without a
+    /// search), until it is taken.
+    single: Option<ScoredPath>,
 }
 
 /// Most numbers the per-`n` searches of one lattice keep in their tables
@@ -803,6 +806,9 @@ impl Iterator for RankedPaths<'_> {
     type Item = ScoredPath;
 
     fn next(&mut self) -> Option<ScoredPath> {
+        if let Some(path) = self.single.take() {
+            return Some(path);
+        }
         if let Some(i) = self.taken.take() {
             self.heads[i] = self.streams[i].next();
         }
@@ -858,6 +864,24 @@ pub fn paths<'l>(
         lexicon,
         options,
     };
+    if let Some(single) = unique_path(lattice, &weights, options) {
+        return RankedPaths {
+            terms: Vec::new(),
+            streams: Vec::new(),
+            heads: Vec::new(),
+            taken: None,
+            single,
+        };
+    }
+    searched_paths(lattice, &weights, options)
+}
+
+/// [`paths`] by the searches alone (no shortcut for a lattice of one path).
+fn searched_paths<'l>(
+    lattice: &'l Lattice,
+    weights: &Weights<'_>,
+    options: &SearchOptions,
+) -> RankedPaths<'l> {
     let (terms, streams) = match options.ranking {
         Ranking::Probability => {
             let limit = part_limit(lattice, topological(lattice), options.max_parts);
@@ -903,7 +927,55 @@ pub fn paths<'l>(
         heads: vec![None; streams.len()],
         streams,
         taken: None,
+        single: None,
     }
+}
+
+/// The analysis of a lattice with exactly one path from start to end (every
+/// live node but the end has one live edge out), scored as the search would
+/// score it: its edges' weights added from the start, for its number of
+/// parts under the frequency model. `None` when the lattice has another
+/// shape, and `Some(None)` when its one path has more parts than allowed.
+fn unique_path(
+    lattice: &Lattice,
+    weights: &Weights<'_>,
+    options: &SearchOptions,
+) -> Option<Option<ScoredPath>> {
+    let live = Adjacency::of(lattice);
+    if live.order.is_empty() {
+        return None;
+    }
+    let mut edges = Vec::with_capacity(live.order.len());
+    let mut parts = 0;
+    let mut node = lattice.start;
+    while node != lattice.end {
+        let [(target, edge, is_word)] = live.out(node) else {
+            return None;
+        };
+        edges.push(EdgeIndex::new(*edge as usize));
+        parts += usize::from(*is_word);
+        node = NodeIndex::new(*target as usize);
+    }
+    // Every live node is on the path: no other path leaves it.
+    if edges.len() + 1 != live.order.len() || parts == 0 {
+        return None;
+    }
+    if options.max_parts > 0 && parts > options.max_parts {
+        return Some(None);
+    }
+    let divisor = match options.ranking {
+        Ranking::Frequency => parts as f64,
+        Ranking::Probability => 1.0,
+    };
+    let mut score = 0.0;
+    for &e in &edges {
+        score += weights.terms(&lattice.graph[e]).weight(divisor);
+    }
+    Some(Some(ScoredPath {
+        edges,
+        score,
+        parts,
+    }))
 }
 
 /// The `k` best analyses, best first: the first `k` of [`paths`]. The second
@@ -1009,6 +1081,46 @@ mod tests {
         .is_empty());
     }
 
+    #[test]
+    fn a_lattice_of_one_path_gives_what_the_search_gives() {
+        let rules = compile_named("german", &CompileOptions::default()).unwrap();
+        let (lexicon, _) = Lexicon::for_rules(&rules, &[], true, false).unwrap();
+        let mut options = SearchOptions::from_rules(&rules);
+        let weights = Weights {
+            rules: &rules,
+            lexicon: &lexicon,
+            options: &options,
+        };
+        let mut unique = 0;
+        for word in [
+            "und",
+            "der",
+            "Haus",
+            "Arbeitsamt",
+            "schnell",
+            "Zeitung",
+            "Bahnhof",
+        ] {
+            let lattice = build(&rules, &lexicon, word, &LatticeOptions::default());
+            let fast: Vec<ScoredPath> = paths(&lattice, &rules, &lexicon, &options).collect();
+            let searched: Vec<ScoredPath> = searched_paths(&lattice, &weights, &options).collect();
+            assert!(same(&fast, &searched), "{word}");
+            unique += usize::from(unique_path(&lattice, &weights, &options).is_some());
+        }
+        assert!(unique > 0, "some of the words have one analysis");
+        // Over the part limit, the one path is not listed.
+        options.max_parts = 1;
+        let lattice = build(&rules, &lexicon, "Arbeitsamt", &LatticeOptions::default());
+        let weights = Weights {
+            rules: &rules,
+            lexicon: &lexicon,
+            options: &options,
+        };
+        let fast: Vec<ScoredPath> = paths(&lattice, &rules, &lexicon, &options).collect();
+        let searched: Vec<ScoredPath> = searched_paths(&lattice, &weights, &options).collect();
+        assert!(same(&fast, &searched));
+    }
+
     /// `a` and `aa` as words over `n` letters, counted under a part limit.
     fn fibonacci_within(n: usize, max_parts: usize) -> PartCount {
         let rules = compile_named("plain", &CompileOptions::default()).unwrap();
@@ -1060,7 +1172,12 @@ mod tests {
         options: &SearchOptions,
         k: usize,
     ) -> Vec<ScoredPath> {
-        let RankedPaths { terms, streams, .. } = paths(lattice, rules, lexicon, options);
+        let weights = Weights {
+            rules,
+            lexicon,
+            options,
+        };
+        let RankedPaths { terms, streams, .. } = searched_paths(lattice, &weights, options);
         let mut all = Vec::new();
         for mut search in streams {
             search.activate(&terms);
