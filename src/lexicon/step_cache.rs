@@ -51,19 +51,11 @@ const EMPTY: Slot = Slot {
 };
 
 /// Recent steps of one lexicon's index (see the module docs).
+#[derive(Default)]
 pub struct StepCache {
     /// The lexicon the slots were filled from (0: none yet).
     owner: u64,
     slots: Vec<Slot>,
-}
-
-impl Default for StepCache {
-    fn default() -> Self {
-        StepCache {
-            owner: 0,
-            slots: Vec::new(),
-        }
-    }
 }
 
 impl std::fmt::Debug for StepCache {
