@@ -372,6 +372,8 @@ struct Builder<'a> {
     end: NodeIndex,
     min_part: usize,
     truncated: Option<Truncation>,
+    /// Part nodes expanded so far (the time limit is checked every 16th).
+    expanded: usize,
     /// Scratch stack of the left-end walk: left-trie node, index cursor
     /// and the entry ending there.
     stack: Vec<(u32, Cursor, Option<usize>)>,
@@ -639,6 +641,7 @@ pub fn build_with(
             .min_part_length
             .unwrap_or(rules.settings.min_part_length),
         truncated: None,
+        expanded: 0,
         stack: scratch.stack,
         steps: scratch.steps,
         walks: scratch.walks,
@@ -845,8 +848,11 @@ impl<'a> Builder<'a> {
     }
 
     fn expand(&mut self, part: PendingPart<'a>, pos: usize) {
+        // The clock is read at the first part and then at every 16th (a
+        // part's expansion is bounded by one walk of the input).
+        self.expanded += 1;
         if let Some(deadline) = self.options.deadline {
-            if Instant::now() > deadline {
+            if self.expanded % 16 == 1 && Instant::now() > deadline {
                 self.truncated = Some(Truncation::Time);
                 return;
             }
