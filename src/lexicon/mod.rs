@@ -345,54 +345,6 @@ pub struct Cursor {
     output: u64,
 }
 
-/// A decoded position in the lexicon index (see [`Lexicon::at`]).
-#[derive(Clone, Copy)]
-pub struct State<'l> {
-    node: fst::raw::Node<'l>,
-    fst: &'l fst::raw::Fst<IndexBytes>,
-    output: u64,
-}
-
-impl<'l> State<'l> {
-    /// The cursor after one more byte.
-    pub fn step(&self, byte: u8) -> Option<Cursor> {
-        let t = self.node.transition(self.node.find_input(byte)?);
-        Some(Cursor {
-            addr: t.addr,
-            output: Output::new(self.output).cat(t.out).value(),
-        })
-    }
-
-    /// The state after one more byte.
-    pub fn next(&self, byte: u8) -> Option<State<'l>> {
-        let t = self.node.transition(self.node.find_input(byte)?);
-        Some(State {
-            node: self.fst.node(t.addr),
-            fst: self.fst,
-            output: Output::new(self.output).cat(t.out).value(),
-        })
-    }
-
-    /// The state after the bytes of one character.
-    pub fn next_char(&self, c: char) -> Option<State<'l>> {
-        let mut buf = [0u8; 4];
-        let mut state = *self;
-        for &b in c.encode_utf8(&mut buf).as_bytes() {
-            state = state.next(b)?;
-        }
-        Some(state)
-    }
-
-    /// The entry that ends exactly here, if any.
-    pub fn entry(&self) -> Option<usize> {
-        self.node.is_final().then(|| {
-            Output::new(self.output)
-                .cat(self.node.final_output())
-                .value() as usize
-        })
-    }
-}
-
 impl Lexicon {
     fn from_parts(
         index: fst::Map<IndexBytes>,
@@ -585,16 +537,6 @@ impl Lexicon {
         let node = self.index.as_fst().node(cursor.addr);
         node.is_final()
             .then(|| Output::new(cursor.output).cat(node.final_output()).value() as usize)
-    }
-
-    /// The index node at a cursor, decoded once for several steps and the
-    /// entry test (each [`step`](Self::step) decodes it again).
-    pub fn at(&self, cursor: Cursor) -> State<'_> {
-        State {
-            node: self.index.as_fst().node(cursor.addr),
-            fst: self.index.as_fst(),
-            output: cursor.output,
-        }
     }
 
     /// Whether a condition holds for an entry.
