@@ -488,7 +488,14 @@ fn form_of(
     w: &crate::lattice::WordEdge,
 ) -> (String, String) {
     match w.source {
-        PartSource::Entry(id) => (lexicon.entry(id).form.clone(), "lexicon".into()),
+        PartSource::Entry(id) => {
+            let entry = lexicon.entry(id);
+            // A word that ends the input is the head (see `proof::shown_form`).
+            let head = crate::proof::head_case(&lattice.text.original)
+                .filter(|_| w.end == lattice.text.chars.len());
+            let form = crate::proof::shown_form(rules, entry.form.clone(), &entry.readings, head);
+            (form, "lexicon".into())
+        }
         PartSource::Pattern(p) => (
             lattice.text.original_slice(w.start, w.end),
             format!("pattern:{}", rules.patterns[p].name),

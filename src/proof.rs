@@ -169,6 +169,65 @@ fn merge_tags(readings: &[Tags]) -> BTreeMap<String, String> {
     out.into_iter().map(|(k, v)| (k, v.join("|"))).collect()
 }
 
+/// The spelling a lexicon part is shown in. Under `set noun-capitals = on`
+/// (an orthography that writes nouns with a capital first letter, as
+/// German does) the lexicon's most frequent spelling gives way to what the
+/// part's readings say: a part whose readings are all nouns starts with a
+/// capital, one with no noun reading with a small letter, and the last part
+/// (the head) of an input that starts with a capital always with a capital:
+/// the head gives a compound its word class, and a capitalised word is a
+/// noun or a nominalisation (*Kinderwagen* ends in the noun *Wagen*, not
+/// the verb *wagen*; *Brustschwimmen* in *Schwimmen*). The head of an input
+/// that starts with a small letter is written small unless all its readings
+/// are nouns (*hellblau*: *hell* + *blau*). Only a
+/// spelling that differs from its key in the first letter at most is
+/// changed, so *DDR* or *McAllister* stay as written.
+///
+/// `head` is `None` for a part that is not the last, else whether the input
+/// starts with a capital (`None` too when it starts with no letter).
+pub fn shown_form(rules: &RuleSet, form: String, readings: &[Tags], head: Option<bool>) -> String {
+    if !rules.settings.noun_capitals {
+        return form;
+    }
+    let noun = |r: &Tags| {
+        r.get("pos")
+            .is_some_and(|p| p.split('|').any(|v| v == "noun"))
+    };
+    let all_nouns = !readings.is_empty() && readings.iter().all(noun);
+    let capital = match head {
+        Some(true) => true,
+        Some(false) => all_nouns,
+        None if all_nouns => true,
+        None if !readings.is_empty() && !readings.iter().any(noun) => false,
+        None => return form,
+    };
+    let mut chars = form.chars();
+    let Some(first) = chars.next() else {
+        return form;
+    };
+    let rest = chars.as_str();
+    if rest.chars().any(char::is_uppercase) || first.is_uppercase() == capital {
+        return form;
+    }
+    let mut out = String::with_capacity(form.len() + 2);
+    if capital {
+        out.extend(first.to_uppercase());
+    } else {
+        out.extend(first.to_lowercase());
+    }
+    out.push_str(rest);
+    out
+}
+
+/// Whether an input starts with a capital (`None`: with no letter), for
+/// [`shown_form`].
+pub fn head_case(original: &[char]) -> Option<bool> {
+    original
+        .first()
+        .filter(|c| c.is_alphabetic())
+        .map(|c| c.is_uppercase())
+}
+
 /// Turns a lattice path into an analysis with offsets in the original input.
 pub fn analysis(
     lattice: &Lattice,
@@ -241,6 +300,22 @@ pub fn analysis(
     }
     if let Some((_, part)) = pending_part {
         parts.push(part);
+    }
+    if rules.settings.noun_capitals {
+        let capital_input = head_case(&text.original);
+        let last = parts.len().saturating_sub(1);
+        for (i, p) in parts.iter_mut().enumerate() {
+            if p.source == "lexicon" {
+                let readings: &[Tags] = if p.readings.is_empty() {
+                    std::slice::from_ref(&p.tags)
+                } else {
+                    &p.readings
+                };
+                let form = std::mem::take(&mut p.form);
+                let head = capital_input.filter(|_| i == last);
+                p.form = shown_form(rules, form, readings, head);
+            }
+        }
     }
     for p in &mut parts {
         p.surface = text.original_slice(p.start, p.end);

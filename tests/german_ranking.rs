@@ -247,3 +247,27 @@ fn adjective_first_parts_are_read_as_adjectives() {
     assert_eq!(best("Kleinstadt"), ["klein", "Stadt"]);
     assert_eq!(best("Krankenhaus"), ["Kranke", "Haus"]);
 }
+
+/// `set noun-capitals = on`: the head of a capitalised compound is shown as
+/// a noun, a part with no noun reading small, whatever the lexicon's most
+/// frequent spelling (the case rule of German orthography, common practice).
+/// The lexicon is invented for the test.
+#[test]
+fn noun_capitals_show_each_part_as_its_readings_and_the_heads_case_say() {
+    let tsv = "Kind\t500\tpos=noun\nKinder\t200\tpos=noun;lemma=Kind\nwagen\t900\tpos=verb\nWagen\tpos=noun\n\
+               Fahren\t300\tpos=verb\nRad\t400\tpos=noun\nhell\t300\tpos=adj\n\
+               Blau\t600\tpos=noun\nblau\tpos=adj\n";
+    let on = german();
+    let lex = lexicon(&on, tsv);
+    assert_eq!(best_forms(&on, &lex, "Kinderwagen"), ["Kind", "Wagen"]);
+    assert_eq!(best_forms(&on, &lex, "kinderwagen"), ["Kind", "wagen"]);
+    assert_eq!(best_forms(&on, &lex, "Fahrrad"), ["fahren", "Rad"]);
+    assert_eq!(best_forms(&on, &lex, "Hellblau"), ["hell", "Blau"]);
+    assert_eq!(best_forms(&on, &lex, "hellblau"), ["hell", "blau"]);
+    // Off, the lexicon's most frequent spelling is shown.
+    let text = std::fs::read_to_string("rule-sets/german.jr").expect("German rules");
+    let off = compile_str("german-off", &text.replace("set noun-capitals = on", ""));
+    let lex = lexicon(&off, tsv);
+    assert_eq!(best_forms(&off, &lex, "Kinderwagen"), ["Kind", "wagen"]);
+    assert_eq!(best_forms(&off, &lex, "Fahrrad"), ["Fahren", "Rad"]);
+}

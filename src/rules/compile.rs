@@ -482,6 +482,7 @@ const SETTINGS: &[&str] = &[
     "script",
     "shadowed-linking",
     "lexicalised-bonus",
+    "noun-capitals",
 ];
 
 fn apply_setting(cx: &mut Context, settings: &mut Settings, s: &SetDecl) {
@@ -567,6 +568,17 @@ fn apply_setting(cx: &mut Context, settings: &mut Settings, s: &SetDecl) {
                 format!("`shadowed-linking` is `on` or `off`, not `{other}`"),
                 s.value.span,
                 Some("`off` drops linking readings that a word of its own spells (Ei + s in Eisberg)".into()),
+            ),
+            None => {}
+        },
+        "noun-capitals" => match word(cx).as_deref() {
+            Some("on") => settings.noun_capitals = true,
+            Some("off") => settings.noun_capitals = false,
+            Some(other) => cx.error(
+                "setting-value",
+                format!("`noun-capitals` is `on` or `off`, not `{other}`"),
+                s.value.span,
+                Some("`on` shows parts read as nouns with a capital first letter (German orthography)".into()),
             ),
             None => {}
         },

@@ -254,6 +254,10 @@ pub struct Settings {
     /// whose lexicon entry has a reading tagged [`LEXICALISED_TAG`]`=yes`
     /// (a word whose meaning is not that of its parts: Hochzeit, Maulwurf).
     pub lexicalised_bonus: f64,
+    /// `noun-capitals`: the orthography writes nouns with a capital first
+    /// letter (German), so a part is shown in its noun or its other spelling
+    /// as its readings say (see [`crate::proof::shown_form`]).
+    pub noun_capitals: bool,
 }
 
 /// The lexicon tag that marks a lexicalised word: written as a compound of
@@ -279,6 +283,7 @@ impl Default for Settings {
             lexicon: None,
             script: None,
             shadowed_linking: true,
+            noun_capitals: false,
             lexicalised_bonus: 0.0,
         }
     }
