@@ -167,6 +167,10 @@ pub struct PartTerm {
     /// `lexicalised-bonus` when the part is a lexicalised word (else 0, not written).
     #[serde(skip_serializing_if = "is_zero")]
     pub lexicalised_bonus: f64,
+    /// `first-member-bonus` when the part can be a compound's first member
+    /// in its stem form (else 0, not written).
+    #[serde(skip_serializing_if = "is_zero")]
+    pub first_member_bonus: f64,
 }
 
 fn is_zero(x: &f64) -> bool {
@@ -584,13 +588,17 @@ pub fn breakdown(
             let bonus = lexicon
                 .get(form)
                 .map_or(0.0, |id| search::lexicalised_bonus(lexicon, id, options));
-            total += term + cost + bonus;
+            let first = lexicon
+                .get(form)
+                .map_or(0.0, |id| search::first_member_bonus(lexicon, id, options));
+            total += term + cost + bonus + first;
             PartTerm {
                 form: form.clone(),
                 frequency: *f,
                 frequency_term: round(term),
                 part_cost: cost,
                 lexicalised_bonus: bonus,
+                first_member_bonus: first,
             }
         })
         .collect();
@@ -1420,7 +1428,7 @@ fn breakdown_text(b: &Breakdown, out: &mut String) {
     for p in &b.parts {
         let _ = writeln!(
             out,
-            "       part {:<12} frequency {:<8} {:>9}  part-cost {:>5}{}",
+            "       part {:<12} frequency {:<8} {:>9}  part-cost {:>5}{}{}",
             p.form,
             p.frequency,
             signed(p.frequency_term),
@@ -1429,6 +1437,11 @@ fn breakdown_text(b: &Breakdown, out: &mut String) {
                 String::new()
             } else {
                 format!("  lexicalised {}", signed(p.lexicalised_bonus))
+            },
+            if p.first_member_bonus == 0.0 {
+                String::new()
+            } else {
+                format!("  first-member {}", signed(p.first_member_bonus))
             }
         );
     }

@@ -614,7 +614,19 @@ pub fn join(
         cap,
         &mut result.truncated,
     );
-    found.sort_by(|a, b| a.0.total_cmp(&b.0).then_with(|| a.2.cmp(&b.2)));
+    // Equal costs: the surfaces with fewer printed hyphens first (a hyphen
+    // twin of `set hyphenated-compounds` after the word written together).
+    let hyphens = |insts: &[usize]| {
+        insts
+            .iter()
+            .filter(|&&id| rules.instances[id].separator == crate::rules::Separator::Hyphen)
+            .count()
+    };
+    found.sort_by(|a, b| {
+        a.0.total_cmp(&b.0)
+            .then_with(|| hyphens(&a.1).cmp(&hyphens(&b.1)))
+            .then_with(|| a.2.cmp(&b.2))
+    });
     result.count = found.len();
     if found.len() > limit {
         result.truncated = true;
@@ -652,6 +664,11 @@ pub fn join(
         } else {
             surface
         };
+        let surface = if rules.settings.noun_capitals {
+            capitals_after_hyphens(rules, parts, &insts, surface)
+        } else {
+            surface
+        };
         result.results.push(Joined {
             rank: rank + 1,
             surface,
@@ -660,6 +677,47 @@ pub fn join(
         });
     }
     result
+}
+
+/// Under `set noun-capitals = on`: a part written with a capital keeps it
+/// after a printed hyphen (`Zeitungs-Artikel`). The hyphens of the surface
+/// are matched to the hyphen junctions in order, so nothing is changed when
+/// a part itself contains a hyphen.
+fn capitals_after_hyphens(
+    rules: &RuleSet,
+    parts: &[&str],
+    insts: &[usize],
+    surface: String,
+) -> String {
+    let capital_after: Vec<bool> = insts
+        .iter()
+        .enumerate()
+        .filter(|(_, &id)| rules.instances[id].separator == crate::rules::Separator::Hyphen)
+        .map(|(i, _)| {
+            parts
+                .get(i + 1)
+                .and_then(|p| p.trim().chars().next())
+                .is_some_and(char::is_uppercase)
+        })
+        .collect();
+    if capital_after.is_empty() || surface.matches('-').count() != capital_after.len() {
+        return surface;
+    }
+    let mut out = String::with_capacity(surface.len());
+    let mut hyphens = capital_after.iter();
+    let mut upper_next = false;
+    for c in surface.chars() {
+        if upper_next {
+            out.extend(c.to_uppercase());
+            upper_next = false;
+            continue;
+        }
+        if c == '-' {
+            upper_next = hyphens.next().copied().unwrap_or(false);
+        }
+        out.push(c);
+    }
+    out
 }
 
 fn scope_allows(filter: crate::lattice::ScopeFilter, scope: Scope) -> bool {

@@ -22,7 +22,7 @@
 
 use crate::lattice::{Edge, Lattice, PartSource, Truncation};
 use crate::lexicon::Lexicon;
-use crate::rules::{Ranking, RuleSet, LEXICALISED_TAG};
+use crate::rules::{Ranking, RuleSet, FIRST_MEMBER_TAGS, LEXICALISED_TAG};
 use num_bigint::BigUint;
 use num_traits::{One, Zero};
 use petgraph::graph::{EdgeIndex, NodeIndex};
@@ -46,6 +46,9 @@ pub struct SearchOptions {
     pub max_pops: usize,
     /// Added for every part that is a lexicalised word (`lexicalised-bonus`).
     pub lexicalised_bonus: f64,
+    /// Added for every part that can be a compound's first member in its
+    /// stem form (`first-member-bonus`).
+    pub first_member_bonus: f64,
 }
 
 impl SearchOptions {
@@ -58,6 +61,7 @@ impl SearchOptions {
             split_cost: rules.settings.split_cost,
             max_pops: 2_000_000,
             lexicalised_bonus: rules.settings.lexicalised_bonus,
+            first_member_bonus: rules.settings.first_member_bonus,
         }
     }
 }
@@ -314,8 +318,14 @@ impl Weights<'_> {
                     ),
                 };
                 let bonus = match w.source {
-                    PartSource::Entry(id) if self.options.lexicalised_bonus != 0.0 => {
-                        Some(lexicalised_bonus(self.lexicon, id, self.options))
+                    PartSource::Entry(id)
+                        if self.options.lexicalised_bonus != 0.0
+                            || self.options.first_member_bonus != 0.0 =>
+                    {
+                        Some(
+                            lexicalised_bonus(self.lexicon, id, self.options)
+                                + first_member_bonus(self.lexicon, id, self.options),
+                        )
                     }
                     _ => None,
                 };
@@ -349,6 +359,26 @@ pub fn lexicalised_bonus(lexicon: &Lexicon, id: usize, options: &SearchOptions) 
     });
     if lexicalised {
         options.lexicalised_bonus
+    } else {
+        0.0
+    }
+}
+
+/// The `first-member-bonus` an entry earns as a part: the bonus when one of
+/// its readings is tagged `role=first` and `final=vowel` (a vowel-final
+/// compound first member in its stem form), else 0.
+pub fn first_member_bonus(lexicon: &Lexicon, id: usize, options: &SearchOptions) -> f64 {
+    if options.first_member_bonus == 0.0 {
+        return 0.0;
+    }
+    let first = lexicon.readings(id).iter().any(|r| {
+        FIRST_MEMBER_TAGS.iter().all(|(key, value)| {
+            r.get(*key)
+                .is_some_and(|v| v.split('|').any(|v| v == *value))
+        })
+    });
+    if first {
+        options.first_member_bonus
     } else {
         0.0
     }

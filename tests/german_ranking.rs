@@ -271,3 +271,67 @@ fn noun_capitals_show_each_part_as_its_readings_and_the_heads_case_say() {
     assert_eq!(best_forms(&off, &lex, "Kinderwagen"), ["Kind", "wagen"]);
     assert_eq!(best_forms(&off, &lex, "Fahrrad"), ["Fahren", "Rad"]);
 }
+
+/// `set hyphenated-compounds = on` in the German rule-set: a hyphen may
+/// stand wherever a compound junction prints nothing, with the linking
+/// element in front of it (the official spelling rules allow a hyphen in any
+/// compound, Amtliches Regelwerk §§ 45–46, from memory). The small lexicon is
+/// invented; its frequencies only make the lexicon form `zeitungs` a real
+/// competitor.
+#[test]
+fn a_hyphen_may_follow_a_linking_element_and_the_part_after_it_keeps_its_capital() {
+    let rules = german();
+    let words = lexicon(
+        &rules,
+        "Zeitung\t5000\tpos=noun\nZeitungs\t40\tpos=noun\nArtikel\t3000\tpos=noun\nSchule\t4000\tpos=noun\nKind\t6000\tpos=noun\n",
+    );
+    assert_eq!(
+        best_forms(&rules, &words, "Zeitungs-Artikel"),
+        ["Zeitung", "Artikel"]
+    );
+    let rec = record(&rules, &words, "Zeitungs-Artikel");
+    let best = &rec.record.analyses[0];
+    assert_eq!(best.junctions[0].rule, "link-s");
+    assert_eq!(best.junctions[0].surface, "s-");
+    // Elision before a hyphen: Schul-Kind is Schule + Kind.
+    assert_eq!(best_forms(&rules, &words, "Schul-Kind"), ["Schule", "Kind"]);
+    // Joining writes the part after the hyphen with its capital, and lists
+    // the form written together before the hyphenated one of the same cost.
+    let surfaces: Vec<String> = join(
+        &rules,
+        &words,
+        &["Zeitung", "Artikel"],
+        ScopeFilter::Compound,
+        100,
+    )
+    .results
+    .into_iter()
+    .map(|j| j.surface)
+    .collect();
+    let together = surfaces.iter().position(|s| s == "Zeitungsartikel");
+    let hyphenated = surfaces.iter().position(|s| s == "Zeitungs-Artikel");
+    assert!(
+        together.is_some() && hyphenated.is_some() && together < hyphenated,
+        "{surfaces:?}"
+    );
+    assert!(!surfaces.iter().any(|s| s.contains("-a")), "{surfaces:?}");
+    // Off, the same word has only the bare hyphen: the lexicon form.
+    let text = std::fs::read_to_string(concat!(env!("CARGO_MANIFEST_DIR"), "/rule-sets/german.jr"))
+        .expect("rule-sets/german.jr");
+    assert!(text.contains("set hyphenated-compounds = on\n"));
+    let off = compile_str(
+        "german-off.jr",
+        &text.replace(
+            "set hyphenated-compounds = on\n",
+            "set hyphenated-compounds = off\n",
+        ),
+    );
+    let lexicon_off = lexicon(
+        &off,
+        "Zeitung\t5000\tpos=noun\nZeitungs\t40\tpos=noun\nArtikel\t3000\tpos=noun\n",
+    );
+    assert_eq!(
+        best_forms(&off, &lexicon_off, "Zeitungs-Artikel"),
+        ["Zeitungs", "Artikel"]
+    );
+}

@@ -122,7 +122,7 @@ pub fn compile(
         );
     }
     let segmenter = Segmenter::new(segments);
-    let expanded = expand_rules(
+    let mut expanded = expand_rules(
         &mut cx,
         &statements,
         &classes,
@@ -133,6 +133,9 @@ pub fn compile(
     let (edge_start, edge_end) = read_edges(&mut cx, &statements);
     check_rule_names(&mut cx, &statements);
     check_duplicates(&mut cx, &expanded);
+    if header.settings.hyphenated_compounds {
+        add_hyphen_twins(&mut expanded.instances);
+    }
     let mut examples = expanded.examples;
     for st in &statements {
         if let Statement::Example(e) = st {
@@ -482,7 +485,9 @@ const SETTINGS: &[&str] = &[
     "script",
     "shadowed-linking",
     "lexicalised-bonus",
+    "first-member-bonus",
     "noun-capitals",
+    "hyphenated-compounds",
 ];
 
 fn apply_setting(cx: &mut Context, settings: &mut Settings, s: &SetDecl) {
@@ -516,6 +521,22 @@ fn apply_setting(cx: &mut Context, settings: &mut Settings, s: &SetDecl) {
                 );
                 None
             }
+        }
+    };
+    let on_off = |cx: &mut Context, meaning: &str| -> Option<bool> {
+        match word(cx).as_deref() {
+            Some("on") => Some(true),
+            Some("off") => Some(false),
+            Some(other) => {
+                cx.error(
+                    "setting-value",
+                    format!("`{name}` is `on` or `off`, not `{other}`"),
+                    s.value.span,
+                    Some(meaning.into()),
+                );
+                None
+            }
+            None => None,
         }
     };
     match name {
@@ -555,33 +576,40 @@ fn apply_setting(cx: &mut Context, settings: &mut Settings, s: &SetDecl) {
                 settings.lexicalised_bonus = n;
             }
         }
+        "first-member-bonus" => {
+            if let Some(n) = number(cx, false) {
+                settings.first_member_bonus = n;
+            }
+        }
         "pattern-frequency" => {
             if let Some(n) = number(cx, false) {
                 settings.pattern_frequency = n.max(0.0);
             }
         }
-        "shadowed-linking" => match word(cx).as_deref() {
-            Some("on") => settings.shadowed_linking = true,
-            Some("off") => settings.shadowed_linking = false,
-            Some(other) => cx.error(
-                "setting-value",
-                format!("`shadowed-linking` is `on` or `off`, not `{other}`"),
-                s.value.span,
-                Some("`off` drops linking readings that a word of its own spells (Ei + s in Eisberg)".into()),
-            ),
-            None => {}
-        },
-        "noun-capitals" => match word(cx).as_deref() {
-            Some("on") => settings.noun_capitals = true,
-            Some("off") => settings.noun_capitals = false,
-            Some(other) => cx.error(
-                "setting-value",
-                format!("`noun-capitals` is `on` or `off`, not `{other}`"),
-                s.value.span,
-                Some("`on` shows parts read as nouns with a capital first letter (German orthography)".into()),
-            ),
-            None => {}
-        },
+        "shadowed-linking" => {
+            if let Some(on) = on_off(
+                cx,
+                "`off` drops linking readings that a word of its own spells (Ei + s in Eisberg)",
+            ) {
+                settings.shadowed_linking = on;
+            }
+        }
+        "noun-capitals" => {
+            if let Some(on) = on_off(
+                cx,
+                "`on` shows parts read as nouns with a capital first letter (German orthography)",
+            ) {
+                settings.noun_capitals = on;
+            }
+        }
+        "hyphenated-compounds" => {
+            if let Some(on) = on_off(
+                cx,
+                "`on` lets every junction written together in a compound also be written with a hyphen (Zeitungs-Artikel)",
+            ) {
+                settings.hyphenated_compounds = on;
+            }
+        }
         "lexicon" => settings.lexicon = word(cx),
         "script" => settings.script = word(cx),
         _ => cx.error(
@@ -1368,6 +1396,44 @@ fn check_rule_names(cx: &mut Context, statements: &[&Statement]) {
 
 /// Pass 5: rule names must be unique; two rules with exactly the same
 /// instances, conditions and scope would double every analysis.
+/// Under `set hyphenated-compounds = on`: after every instance that a
+/// compound may use and that prints nothing between the words (`|`), the
+/// same instance with a printed hyphen there, unless an instance of that
+/// content exists already (a rule written with `-`). An instance that
+/// consumes and prints nothing (plain `+ -> |`) gets no twin: a bare hyphen
+/// is a rule of its own (`rule hyphen: + -> -`), with its own cost.
+fn add_hyphen_twins(instances: &mut Vec<Instance>) {
+    type Content = (String, String, String, Separator, String);
+    let content = |i: &Instance| -> Content {
+        (
+            i.left.clone(),
+            i.right.clone(),
+            i.surface_left.clone(),
+            i.separator,
+            i.surface_right.clone(),
+        )
+    };
+    let mut present: std::collections::HashSet<Content> = instances.iter().map(content).collect();
+    let mut out = Vec::with_capacity(instances.len() * 2);
+    for inst in std::mem::take(instances) {
+        let twin = (inst.separator == Separator::None
+            && inst.scope != Scope::Phrase
+            && !(inst.left.is_empty()
+                && inst.right.is_empty()
+                && inst.surface_left.is_empty()
+                && inst.surface_right.is_empty()))
+        .then(|| Instance {
+            separator: Separator::Hyphen,
+            scope: Scope::Compound,
+            ..inst.clone()
+        })
+        .filter(|t| present.insert(content(t)));
+        out.push(inst);
+        out.extend(twin);
+    }
+    *instances = out;
+}
+
 fn check_duplicates(cx: &mut Context, expanded: &Expanded) {
     type Content<'e> = Vec<(&'e str, &'e str, &'e str, Separator, &'e str)>;
     let mut by_name: HashMap<&str, usize> = HashMap::new();
@@ -1490,6 +1556,89 @@ mod tests {
             Ok(_) => Vec::new(),
             Err(d) => d.0.iter().map(|d| d.code).collect(),
         }
+    }
+
+    /// The instances of a rule-set as `rule:left+right->surface`, with the
+    /// separator as the grammar writes it.
+    fn written(text: &str) -> Vec<String> {
+        let set = compile("t.jr", text, None, &CompileOptions::default()).unwrap();
+        set.instances
+            .iter()
+            .map(|i| {
+                let mark = match i.separator {
+                    Separator::None => "|",
+                    Separator::Space => "_",
+                    Separator::Hyphen => "-",
+                    Separator::Merged => "",
+                };
+                format!(
+                    "{}:{}+{}->{}{mark}{}:{:?}",
+                    set.rules[i.rule].name,
+                    i.left,
+                    i.right,
+                    i.surface_left,
+                    i.surface_right,
+                    i.scope
+                )
+            })
+            .collect()
+    }
+
+    #[test]
+    fn hyphenated_compounds_twin_every_compound_junction_that_prints_nothing() {
+        let rules = "language x\n\
+            rule link: + -> s |\n  in compound\n\
+            rule plain: + -> |\n  in compound\n\
+            rule gap: + -> |\n  in phrase\n\
+            rule either: a + b -> a _? b\n\
+            rule merge: a + i -> e\n\
+            rule dash: + -> x -\n\
+            rule dash-twin: + -> x |\n";
+        let off = written(rules);
+        let hyphenated = |i: &&String| i.split("->").nth(1).is_some_and(|s| s.contains('-'));
+        assert_eq!(
+            off.iter().filter(hyphenated).collect::<Vec<_>>(),
+            ["dash:+->x-:Any"]
+        );
+        let on = written(&rules.replace(
+            "language x\n",
+            "language x\nset hyphenated-compounds = on\n",
+        ));
+        let added: Vec<&String> = on.iter().filter(|i| !off.contains(i)).collect();
+        // `link` and the joined half of `either` get twins (compound scope);
+        // `plain` consumes and prints nothing, `gap` is a phrase junction,
+        // `merge` has no boundary, and `dash-twin`'s twin is `dash` already.
+        assert_eq!(
+            added,
+            ["link:+->s-:Compound", "either:a+b->a-b:Compound"],
+            "{on:?}"
+        );
+        // Each twin comes right after its own instance.
+        let link = on.iter().position(|i| i == "link:+->s|:Compound").unwrap();
+        assert_eq!(on[link + 1], "link:+->s-:Compound");
+        assert_eq!(on.len(), off.len() + 2);
+    }
+
+    #[test]
+    fn a_setting_that_is_on_or_off_rejects_another_word() {
+        for name in ["hyphenated-compounds", "noun-capitals", "shadowed-linking"] {
+            let got = codes(&format!("language x\nset {name} = maybe\n"));
+            assert_eq!(got, ["setting-value"], "{name}");
+        }
+    }
+
+    #[test]
+    fn first_member_bonus_is_a_number() {
+        let set = compile(
+            "t.jr",
+            "language x\nset first-member-bonus = 0.05\n",
+            None,
+            &CompileOptions::default(),
+        )
+        .unwrap();
+        assert_eq!(set.settings.first_member_bonus, 0.05);
+        let got = codes("language x\nset first-member-bonus = on\n");
+        assert_eq!(got, ["setting-value"]);
     }
 
     #[test]

@@ -254,15 +254,34 @@ pub struct Settings {
     /// whose lexicon entry has a reading tagged [`LEXICALISED_TAG`]`=yes`
     /// (a word whose meaning is not that of its parts: Hochzeit, Maulwurf).
     pub lexicalised_bonus: f64,
+    /// `first-member-bonus`: added to the score of an analysis for every
+    /// part whose lexicon entry has a reading tagged [`FIRST_MEMBER_TAGS`]
+    /// (a vowel-final compound first member in its stem form): where
+    /// nothing else tells two readings apart, the one that reads the word
+    /// as a compound comes first (Sanskrit *devendraḥ*: deva + indraḥ).
+    pub first_member_bonus: f64,
     /// `noun-capitals`: the orthography writes nouns with a capital first
     /// letter (German), so a part is shown in its noun or its other spelling
     /// as its readings say (see [`crate::proof::shown_form`]).
     pub noun_capitals: bool,
+    /// `hyphenated-compounds`: a compound may print a hyphen wherever its
+    /// junctions print nothing (`Zeitungs-Artikel`, `deva-putraḥ`): every
+    /// such instance gets a twin with a hyphen (see the rules reference).
+    pub hyphenated_compounds: bool,
 }
 
 /// The lexicon tag that marks a lexicalised word: written as a compound of
 /// other words, but not one in meaning (`lexicalised=yes`).
 pub const LEXICALISED_TAG: &str = "lexicalised";
+
+/// The lexicon tags of a reading that earns the `first-member-bonus`: a
+/// compound's first member in its stem form (`role=first`) that ends in a
+/// vowel (`final=vowel`). Vowel sandhi hides the length of that vowel, so
+/// such a stem ties with another word's inflected form (deva and devā in
+/// devendraḥ). A consonant-final stem ties only with its own pausa form
+/// (tad and tat), which is the reading to keep before a word that cannot
+/// end a compound (tac chrutvā), so it earns nothing.
+pub const FIRST_MEMBER_TAGS: [(&str, &str); 2] = [("role", "first"), ("final", "vowel")];
 
 /// What shadows a linking reading under `set shadowed-linking = off`: the
 /// left word as written (with the letters the junction adds before the
@@ -284,7 +303,9 @@ impl Default for Settings {
             script: None,
             shadowed_linking: true,
             noun_capitals: false,
+            hyphenated_compounds: false,
             lexicalised_bonus: 0.0,
+            first_member_bonus: 0.0,
         }
     }
 }
