@@ -335,3 +335,26 @@ fn a_hyphen_may_follow_a_linking_element_and_the_part_after_it_keeps_its_capital
         ["Zeitungs", "Artikel"]
     );
 }
+
+/// Replacive -s (Hilfe -> Hilfs-, Geschichte -> Geschichts-) belongs to
+/// nouns of two syllables or more: a one-syllable noun in -e is not read
+/// with it (Aue + s + Fahrt is not Ausfahrt).
+#[test]
+fn replacive_s_is_not_read_after_a_one_syllable_noun() {
+    let rules = german();
+    let lexicon = bundled(&rules);
+    assert_eq!(
+        best_forms(&rules, &lexicon, "Autobahnausfahrt"),
+        ["Auto", "Bahn", "Ausfahrt"]
+    );
+    assert_eq!(
+        best_forms(&rules, &lexicon, "Hilfspaket"),
+        ["Hilfe", "Paket"]
+    );
+    let all = analyses(&rules, &lexicon, "Autobahnausfahrt");
+    assert!(
+        !all.iter()
+            .any(|a| a.windows(2).any(|w| w == ["Aue", "Fahrt"])),
+        "{all:?}"
+    );
+}
