@@ -1278,3 +1278,52 @@ fn a_compound_first_member_wins_a_tie_with_an_inflected_form() {
     assert_eq!(best("manorathaḥ"), ["manaḥ", "rathaḥ"]);
     assert_eq!(best("naiva"), ["na", "eva"]);
 }
+
+/// A noun in -a takes the gender of what it describes as the last member
+/// of a possessive (bahuvrīhi) compound: bala (n., strength) in mahābalaḥ
+/// (m.) and mahābalā (f.), dhana (n., wealth) in nirdhanaḥ; Whitney
+/// §1293–§1300 (from memory). Those forms (`role=last`) stand only last: not
+/// alone, not first, not before another compound member.
+#[test]
+fn a_possessive_compound_declines_its_last_noun_in_the_gender_it_needs() {
+    let (rules, lexicon) = setup();
+    let analyzer = Analyzer::new(&rules, &lexicon);
+    let best = |w: &str| -> Option<(Vec<String>, String)> {
+        let record = analyzer.split(w, 1);
+        let a = record.analyses.first()?;
+        let last = a.parts.last()?;
+        Some((
+            a.parts.iter().map(|p| p.form.clone()).collect(),
+            format!(
+                "{} {}",
+                last.tags.get("gender").cloned().unwrap_or_default(),
+                last.tags.get("role").cloned().unwrap_or_default()
+            ),
+        ))
+    };
+    let (parts, last) = best("mahābalaḥ").expect("mahābalaḥ has analyses");
+    assert_eq!(parts, ["mahā", "balaḥ"]);
+    assert_eq!(last, "m last");
+    let (parts, last) = best("mahābalā").expect("mahābalā has analyses");
+    assert_eq!(parts, ["mahā", "balā"]);
+    assert_eq!(last, "f last");
+    let (parts, _) = best("nirdhanaḥ").expect("nirdhanaḥ has analyses");
+    assert_eq!(parts, ["nis", "dhanaḥ"]);
+    // Before a word of its own, with the phrase sandhi undone.
+    let (parts, _) = best("mahābalo rāmaḥ").expect("a phrase after it");
+    assert_eq!(parts, ["mahā", "balaḥ", "rāmaḥ"]);
+    // Not alone, not first, not in the middle of a compound.
+    for w in ["balaḥ", "balo rāmaḥ", "rāmo balaḥ"] {
+        assert!(analyzer.split(w, 1).analyses.is_empty(), "{w}");
+    }
+    let inner = analyzer.split("balāputraḥ", 50);
+    assert!(
+        inner
+            .analyses
+            .iter()
+            .all(|a| a.parts.iter().all(|p| p.form != "balā")),
+        "balā (f.) is read inside a compound"
+    );
+    // The noun's own gender is a plain form, as before: balam (n.) stands alone.
+    assert!(!analyzer.split("balam", 1).analyses.is_empty());
+}

@@ -26,6 +26,11 @@
 //!   `vāk`, `diś` → `dik`, their pausa forms), and the `n` of `-an` and `-in`
 //!   stems dropped (`rājan` → `rāja`, `hastin` → `hasti`), as first members
 //!   are formed (Whitney §1203, from memory).
+//! - **Possessive compound finals.** Every noun in -a (`a-m`, `a-n`) is
+//!   also declined in its other genders as an a-adjective (`class=a-adj`),
+//!   tagged `role=last`: the last member of a bahuvrīhi takes the gender of
+//!   what it describes (`bala`, n., in `mahābalaḥ`, m.). The rule-set keeps
+//!   such forms out of the first place and from after a phrase junction.
 //! - **`bound=yes`** on every reading of a form all of whose readings are
 //!   `role=first` (`pra`, `agni`, `rāja`): such a form never ends an analysis
 //!   and never stands before a printed space (conditions in
@@ -119,6 +124,28 @@ pub fn compound_stem(stem: &str, class: &str) -> String {
     out
 }
 
+/// The class whose other genders a noun in -a takes as the last member of
+/// a possessive (bahuvrīhi) compound: *bala* (n.) in *mahābalaḥ* (m.) and
+/// *mahābalā* (f.), *putra* (m.) in *bahuputram* (n.); Whitney §1293–§1300
+/// (from memory).
+const POSSESSIVE_CLASS: &str = "a-adj";
+
+/// The noun's own gender when its forms of the other genders are to be
+/// added (tagged `role=last`): nouns in -a of the classes `a-m` and `a-n`.
+fn possessive_final_gender(
+    class: &str,
+    tags: &[(String, String)],
+    own: Option<String>,
+) -> Option<String> {
+    let noun = tags.iter().any(|(k, v)| k == "pos" && v == "noun");
+    let names = tags.iter().any(|(k, v)| k == "proper" && v == "yes");
+    if noun && !names && matches!(class, "a-m" | "a-n") {
+        own
+    } else {
+        None
+    }
+}
+
 /// Letters that end a form in a vowel (IAST; `ai`, `au` end in `i`, `u`).
 const VOWELS: &str = "aāiīuūṛṝḷḹeo";
 
@@ -175,8 +202,24 @@ pub fn expand(paradigms: &str, files: &[(&str, &str)]) -> Result<String, String>
                 }
                 add(compound_stem(&line.stem, &line.class), tags);
             }
+            let own_gender = forms
+                .iter()
+                .find_map(|f| f.tag("gender"))
+                .map(str::to_string);
             for f in forms {
                 add(f.form, f.tags);
+            }
+            if let Some(own) = possessive_final_gender(&line.class, &line.tags, own_gender) {
+                let forms = tables
+                    .expand(&line.stem, POSSESSIVE_CLASS, &line.tags)
+                    .map_err(|e| format!("{file}:{}: {e}", line.line))?;
+                for f in forms {
+                    if f.tag("gender").is_some_and(|g| g != own) {
+                        let mut tags = f.tags;
+                        tags.push(("role".into(), "last".into()));
+                        add(f.form, tags);
+                    }
+                }
             }
         }
     }
