@@ -1324,6 +1324,23 @@ fn a_possessive_compound_declines_its_last_noun_in_the_gender_it_needs() {
             .all(|a| a.parts.iter().all(|p| p.form != "balā")),
         "balā (f.) is read inside a compound"
     );
+    // Nouns in -ā (shortened), -i and -u too, keeping their own stem.
+    for (word, parts, gender) in [
+        ("alpavidyaḥ", ["alpa", "vidyaḥ"], "m"),
+        ("alpabuddhinā", ["alpa", "buddhinā"], "m|n"),
+    ] {
+        let (got, last) = best(word).unwrap_or_else(|| panic!("{word} has analyses"));
+        assert_eq!(got, parts, "{word}");
+        assert_eq!(last, format!("{gender} last"), "{word}");
+    }
+    let vidyah = analyzer.split("alpavidyaḥ", 1);
+    assert_eq!(
+        vidyah.analyses[0].parts[1]
+            .tags
+            .get("stem")
+            .map(String::as_str),
+        Some("vidyā")
+    );
     // The noun's own gender is a plain form, as before: balam (n.) stands alone.
     assert!(!analyzer.split("balam", 1).analyses.is_empty());
 }

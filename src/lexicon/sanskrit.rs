@@ -26,9 +26,9 @@
 //!   `vāk`, `diś` → `dik`, their pausa forms), and the `n` of `-an` and `-in`
 //!   stems dropped (`rājan` → `rāja`, `hastin` → `hasti`), as first members
 //!   are formed (Whitney §1203, from memory).
-//! - **Possessive compound finals.** Every noun in -a (`a-m`, `a-n`) is
-//!   also declined in its other genders as an a-adjective (`class=a-adj`),
-//!   tagged `role=last`: the last member of a bahuvrīhi takes the gender of
+//! - **Possessive compound finals.** Every noun in -a, -ā, -i or -u is
+//!   also declined in its other genders as an adjective (see
+//!   [`possessive_final`]), tagged `role=last`: the last member of a bahuvrīhi takes the gender of
 //!   what it describes (`bala`, n., in `mahābalaḥ`, m.). The rule-set keeps
 //!   such forms out of the first place and from after a phrase junction.
 //! - **`bound=yes`** on every reading of a form all of whose readings are
@@ -124,25 +124,55 @@ pub fn compound_stem(stem: &str, class: &str) -> String {
     out
 }
 
-/// The class whose other genders a noun in -a takes as the last member of
-/// a possessive (bahuvrīhi) compound: *bala* (n.) in *mahābalaḥ* (m.) and
-/// *mahābalā* (f.), *putra* (m.) in *bahuputram* (n.); Whitney §1293–§1300
-/// (from memory).
-const POSSESSIVE_CLASS: &str = "a-adj";
-
-/// The noun's own gender when its forms of the other genders are to be
-/// added (tagged `role=last`): nouns in -a of the classes `a-m` and `a-n`.
-fn possessive_final_gender(
+/// How a noun is declined as the last member of a possessive (bahuvrīhi)
+/// compound, which takes the gender of what it describes: the stem and the
+/// adjective class to decline it by, and the noun's own gender (whose forms
+/// it has already). Nouns in -a, -i and -u keep their stem (*bala*, n., in
+/// *mahābalaḥ*, m.; *buddhi*, f., in *alpabuddhinā*, m.; *bāhu*, m., in
+/// *mahābāhu*, n.); a feminine in -ā shortens it (*vidyā* in *alpavidyaḥ*,
+/// m.). Whitney §1293–§1300, §334 (from memory).
+fn possessive_final(
+    stem: &str,
     class: &str,
     tags: &[(String, String)],
-    own: Option<String>,
-) -> Option<String> {
+) -> Option<(String, &'static str, &'static str)> {
     let noun = tags.iter().any(|(k, v)| k == "pos" && v == "noun");
-    let names = tags.iter().any(|(k, v)| k == "proper" && v == "yes");
-    if noun && !names && matches!(class, "a-m" | "a-n") {
-        own
+    let proper = tags.iter().any(|(k, v)| k == "proper" && v == "yes");
+    if !noun || proper {
+        return None;
+    }
+    let keep = |adj: &'static str, own: &'static str| Some((stem.to_string(), adj, own));
+    match class {
+        "a-m" => keep("a-adj", "m"),
+        "a-n" => keep("a-adj", "n"),
+        "i-m" => keep("i-adj", "m"),
+        "i-f" => keep("i-adj", "f"),
+        "i-n" => keep("i-adj", "n"),
+        "u-m" => keep("u-adj-u", "m"),
+        "u-f" => keep("u-adj-u", "f"),
+        "u-n" => keep("u-adj-u", "n"),
+        "ā-f" => stem
+            .strip_suffix('ā')
+            .map(|base| (format!("{base}a"), "a-adj", "f")),
+        _ => None,
+    }
+}
+
+/// The readings of a form, less its `role=last` ones when all the others
+/// are `role=first`. The rules test a part's readings one junction at a
+/// time, so a form that is only a first member (agni, the stem) and only a
+/// last member (agni, the neuter of a possessive compound) would pass both
+/// edges of the input and stand alone; such a form keeps its first-member
+/// readings (the neuter mahāgni then has no analysis: a rare loss).
+fn without_clashing_last_readings(list: &[Vec<(String, String)>]) -> Vec<Vec<(String, String)>> {
+    let role =
+        |r: &Vec<(String, String)>, value: &str| r.iter().any(|(k, v)| k == "role" && v == value);
+    let last = list.iter().any(|r| role(r, "last"));
+    let free = list.iter().any(|r| !role(r, "first") && !role(r, "last"));
+    if last && !free && list.iter().any(|r| role(r, "first")) {
+        list.iter().filter(|r| !role(r, "last")).cloned().collect()
     } else {
-        None
+        list.to_vec()
     }
 }
 
@@ -202,20 +232,28 @@ pub fn expand(paradigms: &str, files: &[(&str, &str)]) -> Result<String, String>
                 }
                 add(compound_stem(&line.stem, &line.class), tags);
             }
-            let own_gender = forms
-                .iter()
-                .find_map(|f| f.tag("gender"))
-                .map(str::to_string);
             for f in forms {
                 add(f.form, f.tags);
             }
-            if let Some(own) = possessive_final_gender(&line.class, &line.tags, own_gender) {
+            if let Some((stem, class, own)) = possessive_final(&line.stem, &line.class, &line.tags)
+            {
                 let forms = tables
-                    .expand(&line.stem, POSSESSIVE_CLASS, &line.tags)
+                    .expand(&stem, class, &line.tags)
                     .map_err(|e| format!("{file}:{}: {e}", line.line))?;
                 for f in forms {
                     if f.tag("gender").is_some_and(|g| g != own) {
-                        let mut tags = f.tags;
+                        // The noun's own stem (vidyā, not the shortened vidya).
+                        let mut tags: Vec<(String, String)> = f
+                            .tags
+                            .into_iter()
+                            .map(|(k, v)| {
+                                if k == "stem" {
+                                    (k, line.stem.clone())
+                                } else {
+                                    (k, v)
+                                }
+                            })
+                            .collect();
                         tags.push(("role".into(), "last".into()));
                         add(f.form, tags);
                     }
@@ -228,7 +266,8 @@ pub fn expand(paradigms: &str, files: &[(&str, &str)]) -> Result<String, String>
         "# juncture: Sanskrit forms expanded from paradigm tables (src/lexicon/sanskrit.rs)\n",
     );
     for form in &order {
-        let list = &readings[form];
+        let list = without_clashing_last_readings(&readings[form]);
+        let list = &list;
         let all = |key: &str, value: &str| {
             list.iter()
                 .all(|r| r.iter().any(|(k, v)| k == key && v == value))
@@ -297,5 +336,10 @@ mod tests {
         assert!(has("kavī", "pragrhya=yes"));
         assert!(!has("phale", "pragrhya=yes"));
         assert!(has("manaḥ", "role=first"));
+        // A possessive compound's last member in another gender.
+        assert!(has("balaḥ", "role=last"));
+        assert!(has("buddhinā", "role=last"));
+        // Not where the form is also a first member and nothing else.
+        assert!(!has("agni", "role=last"));
     }
 }
