@@ -578,9 +578,11 @@ pub fn breakdown(
 ) -> Breakdown {
     let n = parts.len().max(1) as f64;
     let mut total = 0.0;
+    let count = parts.len();
     let parts: Vec<PartTerm> = parts
         .iter()
-        .map(|(form, f)| {
+        .enumerate()
+        .map(|(i, (form, f))| {
             let (term, cost) = match options.ranking {
                 Ranking::Frequency => (f.max(1.0).ln() / n, 0.0),
                 Ranking::Probability => (lexicon.log_probability(*f), -options.part_cost),
@@ -588,9 +590,10 @@ pub fn breakdown(
             let bonus = lexicon
                 .get(form)
                 .map_or(0.0, |id| search::lexicalised_bonus(lexicon, id, options));
-            let first = lexicon
-                .get(form)
-                .map_or(0.0, |id| search::first_member_bonus(lexicon, id, options));
+            let first = match lexicon.get(form) {
+                Some(id) if i + 1 < count => search::first_member_bonus(lexicon, id, options),
+                _ => 0.0,
+            };
             total += term + cost + bonus + first;
             PartTerm {
                 form: form.clone(),

@@ -290,11 +290,11 @@ impl Weights<'_> {
         let live = &Adjacency::of(lattice).live;
         lattice
             .graph
-            .edge_weights()
+            .edge_references()
             .zip(live)
             .map(|(e, &live)| {
                 if live {
-                    self.terms(e)
+                    self.terms(e.weight(), e.target() == lattice.end)
                 } else {
                     EdgeTerms {
                         term: f64::NEG_INFINITY,
@@ -306,8 +306,9 @@ impl Weights<'_> {
             .collect()
     }
 
-    /// The terms of an edge, computed once per lattice.
-    fn terms(&self, edge: &Edge) -> EdgeTerms {
+    /// The terms of an edge, computed once per lattice; `last` says the
+    /// edge ends the input (a last part earns no `first-member-bonus`).
+    fn terms(&self, edge: &Edge, last: bool) -> EdgeTerms {
         match edge {
             Edge::Word(w) => {
                 let (term, divided) = match self.options.ranking {
@@ -324,7 +325,11 @@ impl Weights<'_> {
                     {
                         Some(
                             lexicalised_bonus(self.lexicon, id, self.options)
-                                + first_member_bonus(self.lexicon, id, self.options),
+                                + if last {
+                                    0.0
+                                } else {
+                                    first_member_bonus(self.lexicon, id, self.options)
+                                },
                         )
                     }
                     _ => None,
@@ -364,9 +369,10 @@ pub fn lexicalised_bonus(lexicon: &Lexicon, id: usize, options: &SearchOptions) 
     }
 }
 
-/// The `first-member-bonus` an entry earns as a part: the bonus when one of
-/// its readings is tagged `role=first` and `final=vowel` (a vowel-final
-/// compound first member in its stem form), else 0.
+/// The `first-member-bonus` an entry earns as a part that is not the last:
+/// the bonus when one of its readings is tagged `role=first` and
+/// `final=vowel` (a vowel-final compound first member in its stem form),
+/// else 0.
 pub fn first_member_bonus(lexicon: &Lexicon, id: usize, options: &SearchOptions) -> f64 {
     if options.first_member_bonus == 0.0 {
         return 0.0;
@@ -999,7 +1005,11 @@ fn unique_path(
     };
     let mut score = 0.0;
     for &e in &edges {
-        score += weights.terms(&lattice.graph[e]).weight(divisor);
+        let last = lattice
+            .graph
+            .edge_endpoints(e)
+            .is_some_and(|(_, target)| target == lattice.end);
+        score += weights.terms(&lattice.graph[e], last).weight(divisor);
     }
     Some(Some(ScoredPath {
         edges,

@@ -614,7 +614,7 @@ fn every_class_is_used() {
     // The generator declines nouns by these as possessive compound finals
     // (src/lexicon/sanskrit.rs); the generated lexicon must have their forms.
     let generated = juncture::lexicon::sanskrit::tsv().expect("the Sanskrit lexicon generates");
-    for c in ["a-adj", "i-adj", "u-adj-u"] {
+    for c in ["a-adj", "i-adj", "u-adj-u", "as-adj"] {
         let tag = format!("class={c};");
         assert!(
             generated

@@ -1250,6 +1250,22 @@ fn a_compound_first_member_wins_a_tie_with_an_inflected_form() {
         "{}",
         e.to_text()
     );
+    // The last part earns none, though deva (here the vocative) can be a
+    // first member too.
+    let e = juncture::explain::explain(
+        &analyzer,
+        "mahādeva",
+        None,
+        &juncture::explain::ExplainOptions::default(),
+    );
+    let b = &e.ranked[0].breakdown;
+    let bonuses: Vec<(&str, f64)> = b
+        .parts
+        .iter()
+        .map(|p| (p.form.as_str(), p.first_member_bonus))
+        .collect();
+    assert_eq!(bonuses, [("mahā", 0.05), ("deva", 0.0)]);
+    assert!((b.total - e.ranked[0].analysis.score).abs() < 1e-3);
 
     // A consonant-final stem earns nothing: tad (stem) and tat (its pausa
     // form) tie, as before a word that cannot end a compound tat is right.
@@ -1324,10 +1340,14 @@ fn a_possessive_compound_declines_its_last_noun_in_the_gender_it_needs() {
             .all(|a| a.parts.iter().all(|p| p.form != "balā")),
         "balā (f.) is read inside a compound"
     );
-    // Nouns in -ā (shortened), -i and -u too, keeping their own stem.
+    // Nouns in -ā (shortened), -i, -u, -as and -an too, keeping their own
+    // stem.
     for (word, parts, gender) in [
         ("alpavidyaḥ", ["alpa", "vidyaḥ"], "m"),
         ("alpabuddhinā", ["alpa", "buddhinā"], "m|n"),
+        ("mahāyaśāḥ", ["mahā", "yaśāḥ"], "m|f"),
+        ("mahātejasam", ["mahā", "tejasam"], "m|f"),
+        ("mahākarmā", ["mahā", "karmā"], "m"),
     ] {
         let (got, last) = best(word).unwrap_or_else(|| panic!("{word} has analyses"));
         assert_eq!(got, parts, "{word}");

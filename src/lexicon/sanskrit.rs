@@ -26,7 +26,7 @@
 //!   `vāk`, `diś` → `dik`, their pausa forms), and the `n` of `-an` and `-in`
 //!   stems dropped (`rājan` → `rāja`, `hastin` → `hasti`), as first members
 //!   are formed (Whitney §1203, from memory).
-//! - **Possessive compound finals.** Every noun in -a, -ā, -i or -u is
+//! - **Possessive compound finals.** Every noun in -a, -ā, -i, -u, -as or -an is
 //!   also declined in its other genders as an adjective (see
 //!   [`possessive_final`]), tagged `role=last`: the last member of a bahuvrīhi takes the gender of
 //!   what it describes (`bala`, n., in `mahābalaḥ`, m.). The rule-set keeps
@@ -127,10 +127,12 @@ pub fn compound_stem(stem: &str, class: &str) -> String {
 /// How a noun is declined as the last member of a possessive (bahuvrīhi)
 /// compound, which takes the gender of what it describes: the stem and the
 /// adjective class to decline it by, and the noun's own gender (whose forms
-/// it has already). Nouns in -a, -i and -u keep their stem (*bala*, n., in
-/// *mahābalaḥ*, m.; *buddhi*, f., in *alpabuddhinā*, m.; *bāhu*, m., in
-/// *mahābāhu*, n.); a feminine in -ā shortens it (*vidyā* in *alpavidyaḥ*,
-/// m.). Whitney §1293–§1300, §334 (from memory).
+/// it has already). Nouns in -a, -i, -u, -as and -an keep their stem
+/// (*bala*, n., in *mahābalaḥ*, m.; *buddhi*, f., in *alpabuddhinā*, m.;
+/// *bāhu*, m., in *mahābāhūni*, n. pl.; *yaśas*, n., in *mahāyaśāḥ*, m.;
+/// *karman*, n., in *viśvakarmā*, m.); a feminine in -ā shortens it
+/// (*vidyā* in *alpavidyaḥ*, m.). Whitney §1293–§1300, §334, §418, §424
+/// (from memory).
 fn possessive_final(
     stem: &str,
     class: &str,
@@ -154,6 +156,13 @@ fn possessive_final(
         "ā-f" => stem
             .strip_suffix('ā')
             .map(|base| (format!("{base}a"), "a-adj", "f")),
+        "as-n" => keep("as-adj", "n"),
+        // An an-stem takes the other gender's an-table (viśvakarmā, m.,
+        // on karman, n.); its feminine is left out.
+        "an-n" => keep("an-m", "n"),
+        "an-n-karman" => keep("an-m-ātman", "n"),
+        "an-m" => keep("an-n", "m"),
+        "an-m-ātman" => keep("an-n-karman", "m"),
         _ => None,
     }
 }

@@ -255,7 +255,7 @@ pub struct Settings {
     /// (a word whose meaning is not that of its parts: Hochzeit, Maulwurf).
     pub lexicalised_bonus: f64,
     /// `first-member-bonus`: added to the score of an analysis for every
-    /// part whose lexicon entry has a reading tagged [`FIRST_MEMBER_TAGS`]
+    /// part but the last whose lexicon entry has a reading tagged [`FIRST_MEMBER_TAGS`]
     /// (a vowel-final compound first member in its stem form): where
     /// nothing else tells two readings apart, the one that reads the word
     /// as a compound comes first (Sanskrit *devendraḥ*: deva + indraḥ).
