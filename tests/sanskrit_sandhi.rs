@@ -1231,41 +1231,38 @@ fn a_compound_first_member_wins_a_tie_with_an_inflected_form() {
     // `explain` lists the bonus beside the part that earns it, and its
     // breakdown still adds up to the score.
     let analyzer = Analyzer::new(&rules, &lexicon);
-    let e = juncture::explain::explain(
-        &analyzer,
-        "devendraḥ",
-        None,
-        &juncture::explain::ExplainOptions::default(),
+    let explained = |word: &str| -> (Vec<(String, f64)>, String) {
+        let e = juncture::explain::explain(
+            &analyzer,
+            word,
+            None,
+            &juncture::explain::ExplainOptions::default(),
+        );
+        let b = &e.ranked[0].breakdown;
+        assert!(
+            (b.total - e.ranked[0].analysis.score).abs() < 1e-3,
+            "{word}"
+        );
+        let bonuses = b
+            .parts
+            .iter()
+            .map(|p| (p.form.clone(), p.first_member_bonus))
+            .collect();
+        (bonuses, e.to_text())
+    };
+    let (bonuses, text) = explained("devendraḥ");
+    assert_eq!(
+        bonuses,
+        [("deva".to_string(), 0.05), ("indraḥ".to_string(), 0.0)]
     );
-    let b = &e.ranked[0].breakdown;
-    let bonuses: Vec<(&str, f64)> = b
-        .parts
-        .iter()
-        .map(|p| (p.form.as_str(), p.first_member_bonus))
-        .collect();
-    assert_eq!(bonuses, [("deva", 0.05), ("indraḥ", 0.0)]);
-    assert!((b.total - e.ranked[0].analysis.score).abs() < 1e-3);
-    assert!(
-        e.to_text().contains("first-member +0.05"),
-        "{}",
-        e.to_text()
-    );
+    assert!(text.contains("first-member +0.05"), "{text}");
     // The last part earns none, though deva (here the vocative) can be a
     // first member too.
-    let e = juncture::explain::explain(
-        &analyzer,
-        "mahādeva",
-        None,
-        &juncture::explain::ExplainOptions::default(),
+    let (bonuses, _) = explained("mahādeva");
+    assert_eq!(
+        bonuses,
+        [("mahā".to_string(), 0.05), ("deva".to_string(), 0.0)]
     );
-    let b = &e.ranked[0].breakdown;
-    let bonuses: Vec<(&str, f64)> = b
-        .parts
-        .iter()
-        .map(|p| (p.form.as_str(), p.first_member_bonus))
-        .collect();
-    assert_eq!(bonuses, [("mahā", 0.05), ("deva", 0.0)]);
-    assert!((b.total - e.ranked[0].analysis.score).abs() < 1e-3);
 
     // A consonant-final stem earns nothing: tad (stem) and tat (its pausa
     // form) tie, as before a word that cannot end a compound tat is right.
