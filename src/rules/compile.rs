@@ -1403,31 +1403,65 @@ fn check_rule_names(cx: &mut Context, statements: &[&Statement]) {
 /// consumes and prints nothing (plain `+ -> |`) gets no twin: a bare hyphen
 /// is a rule of its own (`rule hyphen: + -> -`), with its own cost.
 fn add_hyphen_twins(instances: &mut Vec<Instance>) {
-    type Content = (String, String, String, Separator, String);
-    let content = |i: &Instance| -> Content {
+    type Content<'i> = (&'i str, &'i str, &'i str, Separator, &'i str);
+    fn content(i: &Instance) -> Content<'_> {
         (
-            i.left.clone(),
-            i.right.clone(),
-            i.surface_left.clone(),
+            i.left.as_str(),
+            i.right.as_str(),
+            i.surface_left.as_str(),
             i.separator,
-            i.surface_right.clone(),
+            i.surface_right.as_str(),
         )
-    };
-    let mut present: std::collections::HashSet<Content> = instances.iter().map(content).collect();
-    let mut out = Vec::with_capacity(instances.len() * 2);
-    for inst in std::mem::take(instances) {
-        let twin = (inst.separator == Separator::None
+    }
+    let originals = std::mem::take(instances);
+    // Hashes of the contents present (originals, then twins as they are
+    // made), each with where to find the instances that have it; a twin is
+    // compared in full only with those.
+    let mut present: FxHashMap<u64, Vec<(bool, usize)>> = FxHashMap::default();
+    for (i, inst) in originals.iter().enumerate() {
+        present
+            .entry(FxBuildHasher.hash_one(content(inst)))
+            .or_default()
+            .push((false, i));
+    }
+    let mut twins: Vec<Option<Instance>> = Vec::with_capacity(originals.len());
+    let mut made: Vec<usize> = Vec::new();
+    for inst in &originals {
+        let wanted = inst.separator == Separator::None
             && inst.scope != Scope::Phrase
             && !(inst.left.is_empty()
                 && inst.right.is_empty()
                 && inst.surface_left.is_empty()
-                && inst.surface_right.is_empty()))
-        .then(|| Instance {
+                && inst.surface_right.is_empty());
+        if !wanted {
+            twins.push(None);
+            continue;
+        }
+        let twin = Instance {
             separator: Separator::Hyphen,
             scope: Scope::Compound,
             ..inst.clone()
-        })
-        .filter(|t| present.insert(content(t)));
+        };
+        let key = content(&twin);
+        let slot = present.entry(FxBuildHasher.hash_one(key)).or_default();
+        let exists = slot.iter().any(|&(is_twin, j)| {
+            let other = if is_twin {
+                twins[made[j]].as_ref()
+            } else {
+                originals.get(j)
+            };
+            other.is_some_and(|o| content(o) == key)
+        });
+        if exists {
+            twins.push(None);
+        } else {
+            slot.push((true, made.len()));
+            made.push(twins.len());
+            twins.push(Some(twin));
+        }
+    }
+    let mut out = Vec::with_capacity(originals.len() + made.len());
+    for (inst, twin) in originals.into_iter().zip(twins) {
         out.push(inst);
         out.extend(twin);
     }
