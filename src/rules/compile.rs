@@ -1547,6 +1547,8 @@ fn check_duplicates(cx: &mut Context, expanded: &Expanded) {
 /// Pass 6: indexes instances by surface (for splitting) and by underlying
 /// ends (for joining).
 fn index(set: &mut RuleSet) {
+    set.surface_index.reserve(set.instances.len());
+    set.end_index.reserve(set.instances.len());
     for (i, inst) in set.instances.iter().enumerate() {
         let surface = inst.surface();
         set.max_surface_chars = set.max_surface_chars.max(surface.chars().count());

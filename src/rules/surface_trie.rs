@@ -119,8 +119,14 @@ impl SurfaceTrie {
         rights: &[&str],
         surface_chars: Vec<usize>,
     ) -> SurfaceTrie {
+        let lists: Vec<(&str, &[usize])> = lists.collect();
+        // Room for the worst case (no shared prefixes), so the node lists
+        // never move while they grow.
+        let mut nodes = Vec::with_capacity(1 + lists.iter().map(|(s, _)| s.len()).sum::<usize>());
+        nodes.push(SurfaceNode::default());
         let mut trie = SurfaceTrie {
-            nodes: vec![SurfaceNode::default()],
+            nodes,
+            surfaces: Vec::with_capacity(lists.len()),
             ..SurfaceTrie::default()
         };
         for (surface, list) in lists {
@@ -189,10 +195,19 @@ impl SurfaceTrie {
 
 impl SurfaceInstances {
     fn new(list: &[usize], lefts: &[&str]) -> SurfaceInstances {
+        let mut lefts_room = 1;
+        let mut previous: Option<&str> = None;
+        for &i in list {
+            if previous != Some(lefts[i]) {
+                lefts_room += lefts[i].len();
+                previous = Some(lefts[i]);
+            }
+        }
         let mut out = SurfaceInstances {
             instances: list.to_vec(),
-            lefts: vec![LeftNode::default()],
+            lefts: Vec::with_capacity(lefts_room),
         };
+        out.lefts.push(LeftNode::default());
         let mut i = 0;
         while i < list.len() {
             let left = lefts[list[i]];
