@@ -355,18 +355,12 @@ impl Weights<'_> {
 /// The `lexicalised-bonus` an entry earns as a part: the bonus when one of
 /// its readings is tagged `lexicalised=yes`, else 0.
 pub fn lexicalised_bonus(lexicon: &Lexicon, id: usize, options: &SearchOptions) -> f64 {
-    if options.lexicalised_bonus == 0.0 {
-        return 0.0;
-    }
-    let lexicalised = lexicon.readings(id).iter().any(|r| {
-        r.get(LEXICALISED_TAG)
-            .is_some_and(|v| v.split('|').any(|v| v == "yes"))
-    });
-    if lexicalised {
-        options.lexicalised_bonus
-    } else {
-        0.0
-    }
+    bonus_if_tagged(
+        lexicon,
+        id,
+        options.lexicalised_bonus,
+        &[(LEXICALISED_TAG, "yes")],
+    )
 }
 
 /// The `first-member-bonus` an entry earns as a part that is not the last:
@@ -374,17 +368,23 @@ pub fn lexicalised_bonus(lexicon: &Lexicon, id: usize, options: &SearchOptions) 
 /// `final=vowel` (a vowel-final compound first member in its stem form),
 /// else 0.
 pub fn first_member_bonus(lexicon: &Lexicon, id: usize, options: &SearchOptions) -> f64 {
-    if options.first_member_bonus == 0.0 {
+    bonus_if_tagged(lexicon, id, options.first_member_bonus, &FIRST_MEMBER_TAGS)
+}
+
+/// `bonus` when one reading of the entry has every `key=value` of `tags`
+/// (a value may be one of several joined by `|`), else 0.
+fn bonus_if_tagged(lexicon: &Lexicon, id: usize, bonus: f64, tags: &[(&str, &str)]) -> f64 {
+    if bonus == 0.0 {
         return 0.0;
     }
-    let first = lexicon.readings(id).iter().any(|r| {
-        FIRST_MEMBER_TAGS.iter().all(|(key, value)| {
+    let tagged = lexicon.readings(id).iter().any(|r| {
+        tags.iter().all(|(key, value)| {
             r.get(*key)
                 .is_some_and(|v| v.split('|').any(|v| v == *value))
         })
     });
-    if first {
-        options.first_member_bonus
+    if tagged {
+        bonus
     } else {
         0.0
     }
