@@ -1010,10 +1010,10 @@ impl<'a> Builder<'a> {
                         continue; // nothing read and nothing on the surface: no progress
                     }
                     let surface = rules.surface_trie.surface(surface_id);
-                    if let [only] = surface.lefts.as_slice() {
+                    if surface.lefts_len() == 1 {
                         // Every instance has the empty left end: the entry
                         // read so far is the word.
-                        if let (Some((from, to)), Some(id)) = (only.group, entry) {
+                        if let (Some((from, to)), Some(id)) = (surface.group(0), entry) {
                             self.found.push(Found {
                                 q,
                                 after,
@@ -1026,8 +1026,7 @@ impl<'a> Builder<'a> {
                     stack.clear();
                     stack.push((0, cursor, entry));
                     while let Some((at, here, here_entry)) = stack.pop() {
-                        let left = &surface.lefts[at as usize];
-                        if let Some((from, to)) = left.group {
+                        if let Some((from, to)) = surface.group(at) {
                             if let Some(id) = here_entry {
                                 self.found.push(Found {
                                     q,
@@ -1037,7 +1036,7 @@ impl<'a> Builder<'a> {
                                 });
                             }
                         }
-                        for &(byte, child) in left.children.iter().rev() {
+                        for (byte, child) in surface.children(at).rev() {
                             if let Some((next, next_entry)) =
                                 lexicon.step_cached(&mut steps, here, byte)
                             {
@@ -1317,7 +1316,7 @@ impl<'a> Builder<'a> {
                 }
                 for m in self.match_start[q]..self.match_start[q + 1] {
                     let (surface, after) = self.matches[m];
-                    for &inst_id in &rules.surface_trie.surface(surface).instances {
+                    for &inst_id in rules.surface_trie.surface(surface).instances {
                         let inst = &rules.instances[inst_id];
                         if !self.options.scope.allows(inst.scope)
                             || !inst.left.is_empty()

@@ -7,7 +7,7 @@ use std::collections::{BTreeMap, BTreeSet};
 use unicode_normalization::UnicodeNormalization;
 
 /// How a rule-set wants text normalized before matching.
-#[derive(Debug, Clone, PartialEq)]
+#[derive(Debug, Clone, PartialEq, serde::Serialize, serde::Deserialize)]
 pub struct Normalizer {
     /// Unicode normal form.
     pub form: NormalForm,
@@ -168,7 +168,7 @@ fn recompose_origin(chars: &[char], origin: &[usize]) -> Vec<usize> {
 
 /// Splits text into the segments of a rule-set: declared multi-letter units
 /// (such as `ai`, `kh`) taken greedily longest-first, else single characters.
-#[derive(Debug, Clone, Default, PartialEq)]
+#[derive(Debug, Clone, Default, PartialEq, serde::Serialize, serde::Deserialize)]
 pub struct Segmenter {
     multi: BTreeSet<Vec<char>>,
     longest: usize,

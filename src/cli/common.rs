@@ -32,7 +32,8 @@ impl From<io::Error> for Failure {
 /// Where rules and lexicons come from.
 #[derive(Args, Debug, Clone)]
 pub struct Source {
-    /// Rule-set: a bundled name (see `juncture rules`) or the path of a rule file.
+    /// Rule-set: a bundled name (see `juncture rules`), the path of a rule
+    /// file, or of a compiled rule-set (`juncture rules build`).
     #[arg(long, short = 'r', value_name = "NAME|PATH", default_value = "german")]
     pub rules: String,
     /// Add a lexicon file (TSV: form, frequency, tags). Repeatable.

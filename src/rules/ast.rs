@@ -28,7 +28,7 @@ pub struct RuleFile {
 }
 
 /// Unicode normalization form declared by `normalize`.
-#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+#[derive(Debug, Clone, Copy, PartialEq, Eq, serde::Serialize, serde::Deserialize)]
 pub enum NormalForm {
     /// Canonical composition (the default).
     Nfc,
@@ -142,7 +142,7 @@ pub struct PatternDecl {
 }
 
 /// Which word a condition looks at.
-#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash)]
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, serde::Serialize, serde::Deserialize)]
 pub enum Side {
     /// The word before the junction.
     Left,
@@ -151,7 +151,7 @@ pub enum Side {
 }
 
 /// `left.pos = noun|adj`, `right.role != first`, `left.bound`, `left.letters >= 4`
-#[derive(Debug, Clone, PartialEq, Eq, Hash)]
+#[derive(Debug, Clone, PartialEq, Eq, Hash, serde::Serialize, serde::Deserialize)]
 pub struct Condition {
     /// Which word.
     pub side: Side,
@@ -168,7 +168,7 @@ pub struct Condition {
 }
 
 /// A numeric comparison of a condition: `>= N` or `<= N`.
-#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash)]
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, serde::Serialize, serde::Deserialize)]
 pub struct Bound {
     /// `>=` (true) or `<=` (false).
     pub at_least: bool,
@@ -250,7 +250,7 @@ pub struct Change {
 }
 
 /// Scope of a junction.
-#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, serde::Serialize)]
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, serde::Serialize, serde::Deserialize)]
 #[serde(rename_all = "lowercase")]
 pub enum Scope {
     /// Inside a compound.

@@ -39,13 +39,33 @@ pub struct CompileOptions {
     pub variants: Vec<String>,
 }
 
-/// Compiles a bundled rule-set by name, or a rule file by path.
+/// Loads a bundled rule-set by name, or a rule file or compiled rule-set
+/// (`juncture rules build`) by path. A bundled rule-set without variants
+/// comes from its embedded compiled form when that was built from the
+/// bundled text as it is now.
 pub fn compile_named(name_or_path: &str, options: &CompileOptions) -> Result<RuleSet, Diagnostics> {
+    if options.variants.is_empty() {
+        if let Some(set) = bundled::compiled_rule_set(name_or_path) {
+            return Ok(set);
+        }
+    }
+    compile_from_text(name_or_path, options)
+}
+
+/// Compiles a bundled rule-set by name, or a rule file by path, from its
+/// text (never from a compiled form); a compiled rule-set file is loaded.
+pub fn compile_from_text(
+    name_or_path: &str,
+    options: &CompileOptions,
+) -> Result<RuleSet, Diagnostics> {
     if let Some(text) = bundled::rule_set(name_or_path) {
         return compile(&format!("bundled:{name_or_path}"), text, None, options);
     }
     let path = Path::new(name_or_path);
     match std::fs::read(path) {
+        Ok(bytes) if super::compiled::is_compiled(&bytes) => {
+            load_compiled_file(name_or_path, &bytes, options)
+        }
         Ok(bytes) => match String::from_utf8(bytes) {
             Ok(text) => compile(name_or_path, &text, path.parent(), options),
             Err(e) => Err(Diagnostics(vec![Diagnostic::error(
@@ -68,6 +88,42 @@ pub fn compile_named(name_or_path: &str, options: &CompileOptions) -> Result<Rul
             "bundled rule-sets: {}",
             bundled::names().join(", ")
         ))])),
+    }
+}
+
+/// Reads a compiled rule-set file (variants were chosen when it was built).
+fn load_compiled_file(
+    file: &str,
+    bytes: &[u8],
+    options: &CompileOptions,
+) -> Result<RuleSet, Diagnostics> {
+    let rebuild = |variants: &str| {
+        format!("rebuild it from its rule file: juncture rules build RULE-FILE{variants} -o {file}")
+    };
+    if !options.variants.is_empty() {
+        let asked: String = options
+            .variants
+            .iter()
+            .map(|v| format!(" --variant {v}"))
+            .collect();
+        return Err(Diagnostics(vec![Diagnostic::error(
+            "compiled-variant",
+            format!("{file} is a compiled rule-set: its variants were chosen when it was built"),
+            None,
+        )
+        .with_hint(rebuild(&asked))]));
+    }
+    match super::compiled::from_bytes(bytes) {
+        Ok(mut set) => {
+            set.name = file.to_string();
+            Ok(set)
+        }
+        Err(why) => Err(Diagnostics(vec![Diagnostic::error(
+            "bad-compiled-rules",
+            format!("{file}: cannot read the compiled rule-set: {why}"),
+            None,
+        )
+        .with_hint(rebuild(""))])),
     }
 }
 
@@ -173,11 +229,11 @@ pub fn compile(
         settings: header.settings,
         sources: cx.sources,
         warnings,
-        surface_index: FxHashMap::default(),
+        surface_index: Default::default(),
         max_surface_chars: 0,
         surface_trie: Default::default(),
         condition_ids: Default::default(),
-        end_index: FxHashMap::default(),
+        end_index: Default::default(),
         max_left_chars: 0,
         max_right_chars: 0,
     };
@@ -1544,38 +1600,55 @@ fn check_duplicates(cx: &mut Context, expanded: &Expanded) {
 
 // ------------------------------------------------------------------ pass 6
 
-/// Pass 6: indexes instances by surface (for splitting) and by underlying
-/// ends (for joining).
+/// Pass 6: indexes instances by surface (for splitting); the index by
+/// underlying ends (for joining) is built on first use.
 fn index(set: &mut RuleSet) {
-    set.surface_index.reserve(set.instances.len());
-    set.end_index.reserve(set.instances.len());
-    for (i, inst) in set.instances.iter().enumerate() {
-        let surface = inst.surface();
-        set.max_surface_chars = set.max_surface_chars.max(surface.chars().count());
-        set.surface_index.entry(surface).or_default().push(i);
+    for inst in &set.instances {
+        set.max_surface_chars = set.max_surface_chars.max(inst.surface_chars());
         set.max_left_chars = set.max_left_chars.max(inst.left.chars().count());
         set.max_right_chars = set.max_right_chars.max(inst.right.chars().count());
-        set.end_index
-            .entry((inst.left.clone(), inst.right.clone()))
-            .or_default()
-            .push(i);
     }
+    let by_surface = surface_index(&set.instances);
     let instances = &set.instances;
-    for list in set.surface_index.values_mut() {
-        list.sort_by(|a, b| instances[*a].left.cmp(&instances[*b].left).then(a.cmp(b)));
-    }
     let lefts: Vec<&str> = instances.iter().map(|i| i.left.as_str()).collect();
     let rights: Vec<&str> = instances.iter().map(|i| i.right.as_str()).collect();
     set.surface_trie = surface_trie::SurfaceTrie::build(
-        set.surface_index
+        by_surface
             .iter()
             .map(|(s, list)| (s.as_str(), list.as_slice())),
         &lefts,
         &rights,
         instances.iter().map(Instance::surface_chars).collect(),
     );
+    set.surface_index = std::sync::OnceLock::from(by_surface);
     set.condition_ids =
         surface_trie::ConditionIds::build(&set.rules, &set.edge_start, &set.edge_end);
+}
+
+/// Instances by whole surface, each list by left end, then by index.
+pub(crate) fn surface_index(instances: &[Instance]) -> FxHashMap<String, Vec<usize>> {
+    let mut index: FxHashMap<String, Vec<usize>> = FxHashMap::default();
+    index.reserve(instances.len());
+    for (i, inst) in instances.iter().enumerate() {
+        index.entry(inst.surface()).or_default().push(i);
+    }
+    for list in index.values_mut() {
+        list.sort_by(|a, b| instances[*a].left.cmp(&instances[*b].left).then(a.cmp(b)));
+    }
+    index
+}
+
+/// Instances by underlying left end and right start.
+pub(crate) fn end_index(instances: &[Instance]) -> FxHashMap<(String, String), Vec<usize>> {
+    let mut index: FxHashMap<(String, String), Vec<usize>> = FxHashMap::default();
+    index.reserve(instances.len());
+    for (i, inst) in instances.iter().enumerate() {
+        index
+            .entry((inst.left.clone(), inst.right.clone()))
+            .or_default()
+            .push(i);
+    }
+    index
 }
 
 /// Renders diagnostics as one text block (for messages outside the CLI).

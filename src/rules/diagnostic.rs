@@ -6,13 +6,13 @@ use serde::Serialize;
 use std::fmt;
 
 /// The texts of a rule file and of everything it includes.
-#[derive(Debug, Clone, Default)]
+#[derive(Debug, Clone, Default, serde::Serialize, serde::Deserialize)]
 pub struct SourceMap {
     files: Vec<SourceFile>,
 }
 
 /// One source text with the name it is reported under.
-#[derive(Debug, Clone)]
+#[derive(Debug, Clone, serde::Serialize, serde::Deserialize)]
 pub struct SourceFile {
     /// Name shown in diagnostics (a path, or `bundled:NAME`).
     pub name: String,
@@ -77,7 +77,7 @@ impl SourceMap {
 }
 
 /// A resolved place in a source file.
-#[derive(Debug, Clone, PartialEq, Eq, Serialize)]
+#[derive(Debug, Clone, PartialEq, Eq, Serialize, serde::Deserialize)]
 pub struct Location {
     /// File name.
     pub file: String,
@@ -92,7 +92,7 @@ pub struct Location {
 }
 
 /// How serious a diagnostic is.
-#[derive(Debug, Clone, Copy, PartialEq, Eq, PartialOrd, Ord, Serialize)]
+#[derive(Debug, Clone, Copy, PartialEq, Eq, PartialOrd, Ord, Serialize, serde::Deserialize)]
 #[serde(rename_all = "lowercase")]
 pub enum Severity {
     /// The rule-set cannot be used.

@@ -10,13 +10,14 @@
 pub mod ast;
 pub mod bundled;
 pub mod compile;
+pub mod compiled;
 pub mod diagnostic;
 pub mod grammar;
 pub mod parse;
 pub(crate) mod surface_trie;
 
 pub use ast::{Condition, Scope, Side};
-pub use compile::{compile, compile_named, CompileOptions};
+pub use compile::{compile, compile_from_text, compile_named, CompileOptions};
 pub use diagnostic::{Diagnostic, Diagnostics, Location, Severity, SourceMap};
 
 use crate::normalize::{Normalizer, Segmenter};
@@ -24,7 +25,7 @@ use std::collections::BTreeSet;
 
 /// A compiled rule-set: normalization, segments, classes, junction rules
 /// expanded into concrete instances, and indexes for both directions.
-#[derive(Debug, Clone)]
+#[derive(Debug, Clone, serde::Serialize, serde::Deserialize)]
 pub struct RuleSet {
     /// Name it was loaded under (bundled name or file path).
     pub name: String,
@@ -57,18 +58,24 @@ pub struct RuleSet {
     /// Source texts, for diagnostics.
     pub sources: SourceMap,
     /// Warnings found while compiling.
+    #[serde(skip)]
     pub warnings: Vec<Diagnostic>,
-    pub(crate) surface_index: rustc_hash::FxHashMap<String, Vec<usize>>,
+    /// Instances by whole surface (for `explain`); built on first use
+    /// when the rule-set was read from its compiled form.
+    #[serde(skip)]
+    pub(crate) surface_index: std::sync::OnceLock<rustc_hash::FxHashMap<String, Vec<usize>>>,
     pub(crate) max_surface_chars: usize,
     pub(crate) surface_trie: surface_trie::SurfaceTrie,
     pub(crate) condition_ids: surface_trie::ConditionIds,
-    pub(crate) end_index: rustc_hash::FxHashMap<(String, String), Vec<usize>>,
+    /// Instances by underlying ends (for joining); built on first use.
+    #[serde(skip)]
+    pub(crate) end_index: std::sync::OnceLock<rustc_hash::FxHashMap<(String, String), Vec<usize>>>,
     pub(crate) max_left_chars: usize,
     pub(crate) max_right_chars: usize,
 }
 
 /// A class of segments.
-#[derive(Debug, Clone)]
+#[derive(Debug, Clone, serde::Serialize, serde::Deserialize)]
 pub struct Class {
     /// Name.
     pub name: String,
@@ -79,7 +86,7 @@ pub struct Class {
 }
 
 /// A junction rule.
-#[derive(Debug, Clone)]
+#[derive(Debug, Clone, serde::Serialize, serde::Deserialize)]
 pub struct JunctionRule {
     /// Name.
     pub name: String,
@@ -110,7 +117,9 @@ pub struct JunctionRule {
 }
 
 /// How the two parts meet on the surface.
-#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, PartialOrd, Ord, serde::Serialize)]
+#[derive(
+    Debug, Clone, Copy, PartialEq, Eq, Hash, PartialOrd, Ord, serde::Serialize, serde::Deserialize,
+)]
 #[serde(rename_all = "lowercase")]
 pub enum Separator {
     /// Nothing printed between them.
@@ -135,7 +144,7 @@ impl Separator {
 }
 
 /// One concrete way two words can meet.
-#[derive(Debug, Clone, PartialEq, Eq, Hash)]
+#[derive(Debug, Clone, PartialEq, Eq, Hash, serde::Serialize, serde::Deserialize)]
 pub struct Instance {
     /// Index of the rule in [`RuleSet::rules`].
     pub rule: usize,
@@ -173,7 +182,7 @@ impl Instance {
 }
 
 /// An open-class part: any run of segments of a class.
-#[derive(Debug, Clone)]
+#[derive(Debug, Clone, serde::Serialize, serde::Deserialize)]
 pub struct Pattern {
     /// Name, given to the part as tag `pattern=NAME`.
     pub name: String,
@@ -190,7 +199,7 @@ pub struct Pattern {
 }
 
 /// An embedded example.
-#[derive(Debug, Clone)]
+#[derive(Debug, Clone, serde::Serialize, serde::Deserialize)]
 pub struct Example {
     /// The rule it belongs to, if written under one.
     pub rule: Option<usize>,
@@ -203,7 +212,7 @@ pub struct Example {
 }
 
 /// A declared variant.
-#[derive(Debug, Clone)]
+#[derive(Debug, Clone, serde::Serialize, serde::Deserialize)]
 pub struct Variant {
     /// Name.
     pub name: String,
@@ -218,7 +227,7 @@ pub struct Variant {
 }
 
 /// How analyses are ranked.
-#[derive(Debug, Clone, Copy, PartialEq, Eq, serde::Serialize)]
+#[derive(Debug, Clone, Copy, PartialEq, Eq, serde::Serialize, serde::Deserialize)]
 #[serde(rename_all = "kebab-case")]
 pub enum Ranking {
     /// Koehn & Knight (2003): geometric mean of part frequencies, minus rule costs.
@@ -228,7 +237,7 @@ pub enum Ranking {
 }
 
 /// Rule-set settings (`set NAME = VALUE`).
-#[derive(Debug, Clone, PartialEq)]
+#[derive(Debug, Clone, PartialEq, serde::Serialize, serde::Deserialize)]
 pub struct Settings {
     /// `ranking`: frequency or probability.
     pub ranking: Ranking,
@@ -314,6 +323,7 @@ impl RuleSet {
     /// Instances whose whole surface is exactly `surface`.
     pub fn instances_with_surface(&self, surface: &str) -> &[usize] {
         self.surface_index
+            .get_or_init(|| compile::surface_index(&self.instances))
             .get(surface)
             .map_or(&[], |v| v.as_slice())
     }
@@ -326,6 +336,7 @@ impl RuleSet {
     /// Instances whose underlying ends are exactly `left` and `right`.
     pub fn instances_with_ends(&self, left: &str, right: &str) -> &[usize] {
         self.end_index
+            .get_or_init(|| compile::end_index(&self.instances))
             .get(&(left.to_string(), right.to_string()))
             .map_or(&[], |v| v.as_slice())
     }
