@@ -885,7 +885,7 @@ impl<'a> Builder<'a> {
                 None => self.end_edge(part, span, found.id),
                 Some((surface, from, to)) => {
                     let surface = rules.surface_trie.surface(surface);
-                    let group = &surface.instances[from as usize..to as usize];
+                    let group = &surface.instances()[from as usize..to as usize];
                     self.group_edges(part, span, group, found.id);
                 }
             }
@@ -946,7 +946,7 @@ impl<'a> Builder<'a> {
                     return pos == 0 || read >= self.min_part;
                 };
                 let group =
-                    &rules.surface_trie.surface(surface).instances[from as usize..to as usize];
+                    &rules.surface_trie.surface(surface).instances()[from as usize..to as usize];
                 let left_chars = group
                     .first()
                     .map_or(0, |&i| rules.instances[i].left.chars().count());
@@ -1316,7 +1316,7 @@ impl<'a> Builder<'a> {
                 }
                 for m in self.match_start[q]..self.match_start[q + 1] {
                     let (surface, after) = self.matches[m];
-                    for &inst_id in rules.surface_trie.surface(surface).instances {
+                    for &inst_id in rules.surface_trie.surface(surface).instances() {
                         let inst = &rules.instances[inst_id];
                         if !self.options.scope.allows(inst.scope)
                             || !inst.left.is_empty()

@@ -162,13 +162,19 @@ pub(crate) struct SurfaceTrie {
 #[derive(Debug, Clone, Copy)]
 pub(crate) struct SurfaceInstances<'t> {
     trie: &'t SurfaceTrie,
-    /// Instance indexes, by left end, then by index.
-    pub(crate) instances: &'t [usize],
+    id: usize,
     lefts: usize,
     lefts_len: usize,
 }
 
 impl<'t> SurfaceInstances<'t> {
+    /// Instance indexes, by left end, then by index.
+    pub(crate) fn instances(&self) -> &'t [usize] {
+        let trie = self.trie;
+        &trie.instances_usize
+            [trie.surface_instances[self.id] as usize..trie.surface_instances[self.id + 1] as usize]
+    }
+
     /// Number of nodes of the left-end trie (1: every instance has the
     /// empty left end).
     pub(crate) fn lefts_len(&self) -> usize {
@@ -324,8 +330,7 @@ impl SurfaceTrie {
         let lefts = self.surface_lefts[id] as usize;
         SurfaceInstances {
             trie: self,
-            instances: &self.instances_usize
-                [self.surface_instances[id] as usize..self.surface_instances[id + 1] as usize],
+            id,
             lefts,
             lefts_len: self.surface_lefts[id + 1] as usize - lefts,
         }
@@ -460,7 +465,7 @@ mod tests {
         assert_eq!(got, vec![(0, 0), (1, 1), (2, 2)]);
         let empty = trie.surface(0);
         assert_eq!(empty.group(0), Some((0, 1)));
-        assert_eq!(empty.instances, &[0, 1, 2]);
+        assert_eq!(empty.instances(), &[0, 1, 2]);
         let children: Vec<(u8, u32)> = empty.children(0).collect();
         assert_eq!(children, vec![(b'e', 1)]);
         assert_eq!(trie.right_id(3), trie.right_id(4));
