@@ -186,6 +186,53 @@ fn merge_tags(readings: &[Tags]) -> BTreeMap<String, String> {
 /// `head` is `None` for a part that is not the last, else whether the input
 /// starts with a capital (`None` too when it starts with no letter).
 pub fn shown_form(rules: &RuleSet, form: String, readings: &[Tags], head: Option<bool>) -> String {
+    let readings: Vec<&Tags> = readings.iter().collect();
+    shown_form_of(rules, form, &readings, head)
+}
+
+/// The readings of a part that decide its spelling under `noun-capitals`:
+/// those that meet the conditions of the junctions on either side (the
+/// junction before it tests the right word, the one after it the left
+/// word), when any do; the junction licenses the part in those readings
+/// (*schreib + Tisch* by the verb-stem rule is the verb). Of what is left,
+/// a part that is not the last, written in full before its junction (the
+/// junction's underlying left end is empty), with a noun reading and
+/// otherwise only verb readings without a `lemma` (the infinitive itself)
+/// is a nominalised infinitive, and only its noun readings count:
+/// *Lebensmittel* is *Leben* + s + *Mittel*, *Essenszeit* *Essen* + s +
+/// *Zeit*.
+fn shown_readings<'r>(
+    rules: &RuleSet,
+    key: &str,
+    readings: &'r [Tags],
+    before: Option<&crate::rules::Instance>,
+    after: Option<&crate::rules::Instance>,
+) -> Vec<&'r Tags> {
+    let holds = |r: &Tags, conditions: &[crate::rules::Condition]| {
+        conditions_hold(conditions, key, std::slice::from_ref(r))
+    };
+    let licensed = |r: &&Tags| {
+        before.is_none_or(|i| holds(r, &rules.rules[i.rule].right_conditions))
+            && after.is_none_or(|i| holds(r, &rules.rules[i.rule].left_conditions))
+    };
+    let mut shown: Vec<&Tags> = readings.iter().filter(licensed).collect();
+    if shown.is_empty() {
+        shown = readings.iter().collect();
+    }
+    let pos_is = |r: &Tags, pos: &str| r.get("pos").is_some_and(|p| p.split('|').any(|v| v == pos));
+    let nominalised = after.is_some_and(|i| i.left.is_empty())
+        && shown.iter().any(|r| pos_is(r, "noun"))
+        && shown
+            .iter()
+            .all(|r| pos_is(r, "noun") || (pos_is(r, "verb") && !r.contains_key("lemma")));
+    if nominalised {
+        shown.retain(|r| pos_is(r, "noun"));
+    }
+    shown
+}
+
+/// [`shown_form`] of borrowed readings.
+fn shown_form_of(rules: &RuleSet, form: String, readings: &[&Tags], head: Option<bool>) -> String {
     if !rules.settings.noun_capitals {
         return form;
     }
@@ -193,12 +240,12 @@ pub fn shown_form(rules: &RuleSet, form: String, readings: &[Tags], head: Option
         r.get("pos")
             .is_some_and(|p| p.split('|').any(|v| v == "noun"))
     };
-    let all_nouns = !readings.is_empty() && readings.iter().all(noun);
+    let all_nouns = !readings.is_empty() && readings.iter().all(|r| noun(r));
     let capital = match head {
         Some(true) => true,
         Some(false) => all_nouns,
         None if all_nouns => true,
-        None if !readings.is_empty() && !readings.iter().any(noun) => false,
+        None if !readings.is_empty() && !readings.iter().any(|r| noun(r)) => false,
         None => return form,
     };
     let mut chars = form.chars();
@@ -311,9 +358,16 @@ pub fn analysis(
                 } else {
                     &p.readings
                 };
+                let instance = |j: Option<usize>| {
+                    j.and_then(|j| junctions.get(j))
+                        .map(|j: &Junction| &rules.instances[j.instance])
+                };
+                let before = instance(i.checked_sub(1));
+                let after = instance(Some(i)).filter(|_| i < last);
+                let shown = shown_readings(rules, &p.key, readings, before, after);
                 let form = std::mem::take(&mut p.form);
                 let head = capital_input.filter(|_| i == last);
-                p.form = shown_form(rules, form, readings, head);
+                p.form = shown_form_of(rules, form, &shown, head);
             }
         }
     }

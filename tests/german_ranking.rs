@@ -272,6 +272,33 @@ fn noun_capitals_show_each_part_as_its_readings_and_the_heads_case_say() {
     assert_eq!(best_forms(&off, &lex, "Fahrrad"), ["Fahren", "Rad"]);
 }
 
+/// A part is spelled as the readings its junctions license: a verb stem
+/// joined by a verb-stem rule is the verb, and an infinitive written in full
+/// before a linking element or a plain junction, with a noun reading too,
+/// is the nominalised infinitive (the noun). The small lexicon is invented;
+/// its frequencies make the verb spelling the lexicon's most frequent one.
+#[test]
+fn a_part_is_spelled_as_the_readings_its_junctions_license() {
+    let tsv = "leben\t900\tpos=verb\nLeben\tpos=noun\nMittel\t500\tpos=noun\n\
+               schreiben\t800\tpos=verb\nSchreiben\tpos=noun\nTisch\t400\tpos=noun\n\
+               Lauf\t300\tpos=noun\nhoch\t700\tpos=adj\nHoch\tpos=noun\nHaus\t600\tpos=noun\n";
+    let rules = german();
+    let lex = lexicon(&rules, tsv);
+    assert_eq!(
+        best_forms(&rules, &lex, "Lebensmittel"),
+        ["Leben", "Mittel"]
+    );
+    assert_eq!(best_forms(&rules, &lex, "Lebenslauf"), ["Leben", "Lauf"]);
+    // schreib + Tisch: the verb-stem rule takes the verb reading.
+    assert_eq!(
+        best_forms(&rules, &lex, "Schreibtisch"),
+        ["schreiben", "Tisch"]
+    );
+    // An adjective with a noun homograph is not an infinitive: as the
+    // lexicon spells it.
+    assert_eq!(best_forms(&rules, &lex, "Hochhaus"), ["hoch", "Haus"]);
+}
+
 /// `set hyphenated-compounds = on` in the German rule-set: a hyphen may
 /// stand wherever a compound junction prints nothing, with the linking
 /// element in front of it (the official spelling rules allow a hyphen in any
