@@ -638,10 +638,20 @@ pub fn join(
         let left: Vec<char> = words[i].chars().collect();
         let right: Vec<char> = words[i + 1].chars().collect();
         let mut here = Vec::new();
+        let seg = &rules.segmenter;
         for l in 0..=max_l.min(left.len()) {
             let suffix: String = left[left.len() - l..].iter().collect();
+            // A junction meets its words at segment boundaries (`apply`
+            // refuses `p` + `hala` in *phala*): ruled out here, not after
+            // every combination of the junctions before it was tried.
+            if !seg.is_boundary(&words[i], left.len() - l) {
+                continue;
+            }
             for r in 0..=max_r.min(right.len()) {
                 let prefix: String = right[..r].iter().collect();
+                if !seg.is_boundary(&words[i + 1], r) {
+                    continue;
+                }
                 for &id in rules.instances_with_ends(&suffix, &prefix) {
                     let inst = &rules.instances[id];
                     let rule = &rules.rules[inst.rule];
@@ -656,18 +666,19 @@ pub fn join(
         }
         candidates.push(here);
     }
-    let mut chosen = Vec::new();
-    let mut found: Vec<(f64, Vec<usize>, String)> = Vec::new();
-    let cap = limit.saturating_mul(20).max(1000);
-    enumerate_joins(
+    let mut search = JoinSearch {
         rules,
-        &words,
-        &candidates,
-        &mut chosen,
-        &mut found,
-        cap,
-        &mut result.truncated,
-    );
+        words: &words,
+        candidates: &candidates,
+        chosen: Vec::new(),
+        found: Vec::new(),
+        cap: limit.saturating_mul(20).max(1000),
+        truncated: false,
+        dead: rustc_hash::FxHashSet::default(),
+    };
+    search.enumerate();
+    result.truncated = search.truncated;
+    let mut found = search.found;
     // Equal costs: the surfaces with fewer printed hyphens first (a hyphen
     // twin of `set hyphenated-compounds` after the word written together).
     let hyphens = |insts: &[usize]| {
@@ -783,46 +794,68 @@ fn scope_allows(filter: crate::lattice::ScopeFilter, scope: Scope) -> bool {
     }
 }
 
-fn enumerate_joins(
-    rules: &RuleSet,
-    words: &[String],
-    candidates: &[Vec<usize>],
-    chosen: &mut Vec<usize>,
-    found: &mut Vec<(f64, Vec<usize>, String)>,
+/// The depth-first search over the junction candidates of [`join`].
+struct JoinSearch<'a> {
+    rules: &'a RuleSet,
+    words: &'a [String],
+    candidates: &'a [Vec<usize>],
+    chosen: Vec<usize>,
+    found: Vec<(f64, Vec<usize>, String)>,
     cap: usize,
-    truncated: &mut bool,
-) {
-    if found.len() >= cap {
-        *truncated = true;
-        return;
-    }
-    let i = chosen.len();
-    if i == candidates.len() {
-        if let Ok(surface) = apply(rules, words, chosen) {
-            // Folded from +0.0: an empty `sum()` of f64 is -0.0 (printed `-0`).
-            let cost = chosen
-                .iter()
-                .map(|&id| rules.rules[rules.instances[id].rule].cost)
-                .fold(0.0, |a, c| a + c);
-            found.push((cost, chosen.clone(), surface));
+    truncated: bool,
+    /// (junction, characters of its left word the junction before it took)
+    /// from which no join was found. Every test a junction makes looks at
+    /// its own two words and that count only, so the same state fails again
+    /// whatever came before it: without this, a part that no junction can
+    /// follow late in a long compound made the search try every
+    /// combination of the junctions before it.
+    dead: rustc_hash::FxHashSet<(usize, usize)>,
+}
+
+impl JoinSearch<'_> {
+    fn enumerate(&mut self) {
+        if self.found.len() >= self.cap {
+            self.truncated = true;
+            return;
         }
-        return;
-    }
-    for &id in &candidates[i] {
-        // Prune overlaps early: the word before this junction must keep its letters.
-        let inst = &rules.instances[id];
-        let claimed = if i == 0 {
-            0
-        } else {
-            rules.instances[chosen[i - 1]].right.chars().count()
+        let rules = self.rules;
+        let i = self.chosen.len();
+        if i == self.candidates.len() {
+            if let Ok(surface) = apply(rules, self.words, &self.chosen) {
+                // Folded from +0.0: an empty `sum()` of f64 is -0.0 (printed `-0`).
+                let cost = self
+                    .chosen
+                    .iter()
+                    .map(|&id| rules.rules[rules.instances[id].rule].cost)
+                    .fold(0.0, |a, c| a + c);
+                self.found.push((cost, self.chosen.clone(), surface));
+            }
+            return;
+        }
+        // Characters of this junction's left word taken by the junction before it.
+        let claimed = match i.checked_sub(1) {
+            Some(before) => rules.instances[self.chosen[before]].right.chars().count(),
+            None => 0,
         };
-        let len = words[i].chars().count();
-        let left_len = inst.left.chars().count();
-        if len < claimed + left_len || (len == claimed + left_len && inst.surface().is_empty()) {
-            continue;
+        if self.dead.contains(&(i, claimed)) {
+            return;
         }
-        chosen.push(id);
-        enumerate_joins(rules, words, candidates, chosen, found, cap, truncated);
-        chosen.pop();
+        let found_before = self.found.len();
+        let len = self.words[i].chars().count();
+        for &id in &self.candidates[i] {
+            // Prune overlaps early: the word before this junction must keep its letters.
+            let inst = &rules.instances[id];
+            let left_len = inst.left.chars().count();
+            if len < claimed + left_len || (len == claimed + left_len && inst.surface().is_empty())
+            {
+                continue;
+            }
+            self.chosen.push(id);
+            self.enumerate();
+            self.chosen.pop();
+        }
+        if self.found.len() == found_before && !self.truncated {
+            self.dead.insert((i, claimed));
+        }
     }
 }

@@ -258,3 +258,33 @@ fn tsv_output_names_a_limit_that_cut_the_search() {
         lines[1]
     );
 }
+
+/// `join` of a long compound: the candidates of every junction are
+/// combined depth first up to the listing cap, and a junction that cannot
+/// apply (here `p` + `halam`: *ph* is one segment) is ruled out before the
+/// junctions ahead of it are combined. Before that, 61 parts took longer
+/// than any timeout (2 ways at each of 60 junctions were all tried), so
+/// this test would hang rather than fail. The members are common Sanskrit
+/// stems; the sequence is the benchmark's constructed compound.
+#[test]
+fn a_long_join_with_junctions_that_cannot_apply_does_not_try_every_combination() {
+    let members = [
+        "deva", "indra", "rāja", "putra", "vana", "gaja", "aśva", "nagara", "jala", "phala",
+    ];
+    let parts: Vec<&str> = (0..60).map(|i| members[i % members.len()]).collect();
+    let joined = format!("{} + phalam", parts.join(" + "));
+    let out = juncture(&[
+        "join", "--rules", "sanskrit", "--scope", "compound", "--limit", "1", "-f", "jsonl",
+        &joined,
+    ]);
+    assert_eq!(out.status.code(), Some(0), "{out:?}");
+    let record: Value = serde_json::from_slice(&out.stdout).expect("one JSON record");
+    let results = record["results"].as_array().expect("results");
+    assert_eq!(results.len(), 1);
+    let surface = results[0]["surface"].as_str().unwrap();
+    assert!(
+        surface.starts_with("devendra") && surface.ends_with("phalam"),
+        "{surface}"
+    );
+    assert_eq!(record["truncated"], true);
+}
