@@ -783,6 +783,31 @@ fn pragrhya_depends_on_the_dual_reading() {
     assert!(phale.contains(&"phale atra".to_string()), "{phale:?}");
 }
 
+/// Cardinal numerals are words of their own, not only compound first
+/// members (Whitney §475-§484, from memory): *ṣaṭ* before a vowel is
+/// voiced (*ṣaḍ ṛtavaḥ*), *trayaḥ* and *catvāraḥ* take the visarga rules,
+/// and *dve*, a dual in -e, is pragṛhya. As first members they still join
+/// (*saptarṣayaḥ*). The phrases are composed for this test.
+#[test]
+fn numerals_stand_alone_and_as_first_members() {
+    let (rules, lexicon) = setup();
+    let analyzer = Analyzer::new(&rules, &lexicon);
+    let best = |s: &str| {
+        analyses(&analyzer, s)
+            .into_iter()
+            .next()
+            .unwrap_or_default()
+    };
+    assert_eq!(best("ṣaḍ ṛtavaḥ"), ["ṣaṭ", "ṛtavaḥ"]);
+    assert_eq!(best("trayo lokāḥ"), ["trayaḥ", "lokāḥ"]);
+    assert_eq!(best("catvāro vedāḥ"), ["catvāraḥ", "vedāḥ"]);
+    assert_eq!(best("saptarṣayaḥ"), ["sapta", "ṛṣayaḥ"]);
+    assert_eq!(best("pañcatantram"), ["pañca", "tantram"]);
+    assert_eq!(joined(&rules, &lexicon, &["dve", "atra"]), vec!["dve atra"]);
+    // A ready-made numeral form is no stem: no compound first member.
+    assert!(analyses(&analyzer, "tribhiḥputraiḥ").is_empty());
+}
+
 #[test]
 fn bound_forms_do_not_stand_before_a_space() {
     let (rules, lexicon) = setup();

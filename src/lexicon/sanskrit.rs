@@ -226,7 +226,9 @@ pub fn expand(paradigms: &str, files: &[(&str, &str)]) -> Result<String, String>
             let forms = tables
                 .expand(&line.stem, &line.class, &line.tags)
                 .map_err(|e| format!("{file}:{}: {e}", line.line))?;
-            let nominal = forms.iter().any(|f| f.tag("case").is_some());
+            // A ready-made form (no class) is no stem: it gets no
+            // compound first member (the numeral forms dvau, tribhiḥ).
+            let nominal = !line.class.is_empty() && forms.iter().any(|f| f.tag("case").is_some());
             if nominal {
                 let mut tags: Vec<(String, String)> = vec![
                     ("stem".into(), line.stem.clone()),
