@@ -678,20 +678,41 @@ pub fn join(
     };
     search.enumerate();
     result.truncated = search.truncated;
-    let mut found = search.found;
-    // Equal costs: the surfaces with fewer printed hyphens first (a hyphen
-    // twin of `set hyphenated-compounds` after the word written together).
-    let hyphens = |insts: &[usize]| {
-        insts
-            .iter()
-            .filter(|&&id| rules.instances[id].separator == crate::rules::Separator::Hyphen)
-            .count()
-    };
-    found.sort_by(|a, b| {
-        a.0.total_cmp(&b.0)
-            .then_with(|| hyphens(&a.1).cmp(&hyphens(&b.1)))
+    // Ways that write a first word as a form the lexicon does not have for
+    // it (a rule's `attested` clause: Arbeit + ens + Amt) are listed after
+    // the others, then cheaper first, and at equal costs the surfaces with
+    // fewer printed hyphens first (a hyphen twin of `set
+    // hyphenated-compounds` after the word written together).
+    let mut found: Vec<((usize, usize), (f64, Vec<usize>, String))> = search
+        .found
+        .into_iter()
+        .map(|way| {
+            let unattested = way
+                .1
+                .iter()
+                .enumerate()
+                .filter(|&(i, &id)| {
+                    let inst = &rules.instances[id];
+                    rules.rules[inst.rule].attested
+                        && inst.surface_left != inst.left
+                        && !crate::lattice::attested(rules, lexicon, &words[i], inst)
+                })
+                .count();
+            let hyphens = way
+                .1
+                .iter()
+                .filter(|&&id| rules.instances[id].separator == crate::rules::Separator::Hyphen)
+                .count();
+            ((unattested, hyphens), way)
+        })
+        .collect();
+    found.sort_by(|(ka, a), (kb, b)| {
+        ka.0.cmp(&kb.0)
+            .then_with(|| a.0.total_cmp(&b.0))
+            .then_with(|| ka.1.cmp(&kb.1))
             .then_with(|| a.2.cmp(&b.2))
     });
+    let found: Vec<(f64, Vec<usize>, String)> = found.into_iter().map(|(_, way)| way).collect();
     result.count = found.len();
     if found.len() > limit {
         result.truncated = true;

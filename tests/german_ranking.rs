@@ -164,6 +164,36 @@ fn the_attested_clause_parses_and_join_still_writes_every_form() {
     );
 }
 
+/// `join` lists a way whose `attested` junction writes the first word as a
+/// form the lexicon does not have for it after the ways that do not, even
+/// when its rule costs less: Kind + er (Kinder, lemma Kind) is attested,
+/// Kaffee + er is not (no form Kaffeeer).
+#[test]
+fn join_lists_unattested_linking_forms_after_the_others() {
+    let text = "language x\ncase fold\nrule link-er: + -> e r |\n  cost 0\n  attested\n\
+                rule link-en: + -> e n |\n  cost 0.5\n  attested\nrule plain: + -> |\n  cost 1\n";
+    let rules = compile_str("x.jr", text);
+    let lex = lexicon(&rules, LINKING);
+    let surfaces = |a: &str, b: &str| -> Vec<String> {
+        join(&rules, &lex, &[a, b], ScopeFilter::Any, 10)
+            .results
+            .into_iter()
+            .map(|j| j.surface)
+            .collect()
+    };
+    // Both -er- and -en- are unattested for Kaffee: the plain join comes
+    // first although it costs most, and the unattested ones keep their order.
+    assert_eq!(
+        surfaces("Kaffee", "Satz"),
+        ["Kaffeesatz", "Kaffeeersatz", "Kaffeeensatz"]
+    );
+    // Kinder is a form of Kind: -er- stays first; -en- (Kinden) goes last.
+    assert_eq!(
+        surfaces("Kind", "Buch"),
+        ["Kinderbuch", "Kindbuch", "Kindenbuch"]
+    );
+}
+
 /// The bundled German lexicon writes ß where the current orthography does
 /// (wordfreq's list folds it to ss; the lexicon build puts it back from a
 /// spelling dictionary, see lexicons/README.md). Input in either spelling
