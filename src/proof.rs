@@ -834,49 +834,89 @@ struct JoinSearch<'a> {
 }
 
 impl JoinSearch<'_> {
+    /// Depth first over the junctions, with an explicit stack (a line of
+    /// tens of thousands of parts must not exhaust the call stack).
     fn enumerate(&mut self) {
-        if self.found.len() >= self.cap {
-            self.truncated = true;
-            return;
-        }
         let rules = self.rules;
-        let i = self.chosen.len();
-        if i == self.candidates.len() {
-            if let Ok(surface) = apply(rules, self.words, &self.chosen) {
-                // Folded from +0.0: an empty `sum()` of f64 is -0.0 (printed `-0`).
-                let cost = self
-                    .chosen
-                    .iter()
-                    .map(|&id| rules.rules[rules.instances[id].rule].cost)
-                    .fold(0.0, |a, c| a + c);
-                self.found.push((cost, self.chosen.clone(), surface));
+        let n = self.candidates.len();
+        if n == 0 {
+            self.leaf();
+            return;
+        }
+        // Per junction entered: the next candidate to try, the number of
+        // ways found when it was entered, and the characters of its left
+        // word the junction before it took.
+        struct Frame {
+            next: usize,
+            found_before: usize,
+            claimed: usize,
+        }
+        let mut frames = vec![Frame {
+            next: 0,
+            found_before: 0,
+            claimed: 0,
+        }];
+        while !frames.is_empty() {
+            let i = frames.len() - 1;
+            let frame = &mut frames[i];
+            let len = self.words[i].chars().count();
+            let mut descend = None;
+            while let Some(&id) = self.candidates[i].get(frame.next) {
+                frame.next += 1;
+                // Prune overlaps early: the word before this junction must keep its letters.
+                let inst = &rules.instances[id];
+                let left_len = inst.left.chars().count();
+                if len < frame.claimed + left_len
+                    || (len == frame.claimed + left_len && inst.surface().is_empty())
+                {
+                    continue;
+                }
+                if self.found.len() >= self.cap {
+                    self.truncated = true;
+                    return;
+                }
+                if i + 1 == n {
+                    self.chosen.push(id);
+                    self.leaf();
+                    self.chosen.pop();
+                    continue;
+                }
+                let claimed = inst.right.chars().count();
+                if self.dead.contains(&(i + 1, claimed)) {
+                    continue;
+                }
+                descend = Some((id, claimed));
+                break;
             }
-            return;
-        }
-        // Characters of this junction's left word taken by the junction before it.
-        let claimed = match i.checked_sub(1) {
-            Some(before) => rules.instances[self.chosen[before]].right.chars().count(),
-            None => 0,
-        };
-        if self.dead.contains(&(i, claimed)) {
-            return;
-        }
-        let found_before = self.found.len();
-        let len = self.words[i].chars().count();
-        for &id in &self.candidates[i] {
-            // Prune overlaps early: the word before this junction must keep its letters.
-            let inst = &rules.instances[id];
-            let left_len = inst.left.chars().count();
-            if len < claimed + left_len || (len == claimed + left_len && inst.surface().is_empty())
-            {
+            if let Some((id, claimed)) = descend {
+                self.chosen.push(id);
+                frames.push(Frame {
+                    next: 0,
+                    found_before: self.found.len(),
+                    claimed,
+                });
                 continue;
             }
-            self.chosen.push(id);
-            self.enumerate();
+            // Every candidate of junction i tried.
+            let done = frames.pop().expect("a frame is on the stack");
+            if self.found.len() == done.found_before && !self.truncated {
+                self.dead.insert((i, done.claimed));
+            }
             self.chosen.pop();
         }
-        if self.found.len() == found_before && !self.truncated {
-            self.dead.insert((i, claimed));
+    }
+
+    /// Applies the chosen junctions; a way that applies is kept.
+    fn leaf(&mut self) {
+        let rules = self.rules;
+        if let Ok(surface) = apply(rules, self.words, &self.chosen) {
+            // Folded from +0.0: an empty `sum()` of f64 is -0.0 (printed `-0`).
+            let cost = self
+                .chosen
+                .iter()
+                .map(|&id| rules.rules[rules.instances[id].rule].cost)
+                .fold(0.0, |a, c| a + c);
+            self.found.push((cost, self.chosen.clone(), surface));
         }
     }
 }

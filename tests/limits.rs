@@ -288,3 +288,46 @@ fn a_long_join_with_junctions_that_cannot_apply_does_not_try_every_combination()
     );
     assert_eq!(record["truncated"], true);
 }
+
+/// `join` of a line of 100,000 parts: the depth-first search keeps its own
+/// stack, so the depth of a line is not limited by the call stack (it
+/// aborted with a stack overflow at about 50,000 parts).
+#[test]
+fn a_join_of_a_hundred_thousand_parts_does_not_overflow_the_stack() {
+    use std::io::Write;
+    let line = vec!["ab"; 100_000].join("+");
+    let mut child = Command::new(env!("CARGO_BIN_EXE_juncture"))
+        .args([
+            "join",
+            "--rules",
+            "plain",
+            "--no-default-lexicon",
+            "--limit",
+            "1",
+            "-f",
+            "jsonl",
+        ])
+        .stdin(std::process::Stdio::piped())
+        .stdout(std::process::Stdio::piped())
+        .stderr(std::process::Stdio::piped())
+        .spawn()
+        .expect("run juncture");
+    child
+        .stdin
+        .take()
+        .expect("stdin")
+        .write_all(format!("{line}\n").as_bytes())
+        .expect("write the line");
+    let out = child.wait_with_output().expect("juncture ends");
+    assert_eq!(
+        out.status.code(),
+        Some(0),
+        "{}",
+        String::from_utf8_lossy(&out.stderr)
+    );
+    let record: Value = serde_json::from_slice(&out.stdout).expect("one JSON record");
+    assert_eq!(
+        record["results"][0]["surface"].as_str().map(str::len),
+        Some(200_000)
+    );
+}
