@@ -128,7 +128,7 @@ fn fnv1a(bytes: &[u8]) -> u64 {
 #[cfg(test)]
 mod tests {
     use super::*;
-    use crate::rules::{compile_named, CompileOptions};
+    use crate::rules::CompileOptions;
 
     fn demo() -> RuleSet {
         crate::rules::compile(
@@ -178,6 +178,5 @@ mod tests {
         assert!(from_bytes(b"language demo\n")
             .unwrap_err()
             .starts_with("not a compiled rule-set"));
-        let _ = compile_named("plain", &CompileOptions::default()).unwrap();
     }
 }
