@@ -29,6 +29,12 @@ impl From<io::Error> for Failure {
     }
 }
 
+/// Writes `bytes` to `path`; a failure names the file.
+pub fn write_file(path: &std::path::Path, bytes: impl AsRef<[u8]>) -> Result<(), Failure> {
+    std::fs::write(path, bytes)
+        .map_err(|e| Failure::Usage(format!("error: cannot write {}: {e}", path.display())))
+}
+
 /// Where rules and lexicons come from.
 #[derive(Args, Debug, Clone)]
 pub struct Source {

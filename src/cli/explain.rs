@@ -83,8 +83,7 @@ pub fn run(args: ExplainArgs) -> Result<i32, Failure> {
     let explanation = explain(&analyzer, &args.word, expect.as_deref(), &options);
     if let Some(path) = &args.svg {
         let svg = juncture::render_svg::render(&explanation);
-        std::fs::write(path, svg)
-            .map_err(|e| Failure::Usage(format!("error: cannot write {}: {e}", path.display())))?;
+        super::common::write_file(path, svg)?;
     }
     match args.format {
         ExplainFormat::Text => out.write_all(explanation.to_text().as_bytes())?,

@@ -119,9 +119,7 @@ pub fn run(args: LexiconArgs) -> Result<i32, Failure> {
                 .build()
                 .map_err(|e| Failure::Usage(format!("error: {e}")))?;
             let bytes = lexicon.to_compiled(&sources);
-            std::fs::write(&output, &bytes).map_err(|e| {
-                Failure::Usage(format!("error: cannot write {}: {e}", output.display()))
-            })?;
+            super::common::write_file(&output, &bytes)?;
             eprintln!(
                 "{}: {} entries, {} bytes{}",
                 output.display(),
@@ -183,8 +181,7 @@ fn expand(
     }
     .map_err(|e| Failure::Usage(format!("error: {e}")))?;
     match output {
-        Some(p) => std::fs::write(p, &text)
-            .map_err(|e| Failure::Usage(format!("error: cannot write {}: {e}", p.display())))?,
+        Some(p) => super::common::write_file(p, &text)?,
         None => std::io::stdout().lock().write_all(text.as_bytes())?,
     }
     Ok(EXIT_OK)

@@ -94,9 +94,7 @@ pub fn run(args: RulesArgs) -> Result<i32, Failure> {
                 eprintln!("{warning}");
             }
             let bytes = compiled::to_bytes(&set);
-            std::fs::write(&output, &bytes).map_err(|e| {
-                Failure::Usage(format!("error: cannot write {}: {e}", output.display()))
-            })?;
+            super::common::write_file(&output, &bytes)?;
             eprintln!(
                 "wrote {}: {} rules, {} instances, {} bytes",
                 output.display(),
