@@ -108,6 +108,12 @@ fn bench(c: &mut Criterion) {
     // As the `juncture` binary does (see src/main.rs): freed memory is kept.
     // SAFETY: sets a global option of the allocator; any value is valid.
     unsafe { libmimalloc_sys::mi_option_set(15, -1) };
+    // And no transparent huge pages (see `no_transparent_huge_pages` there).
+    #[cfg(target_os = "linux")]
+    // SAFETY: one integer argument; it changes how pages are backed only.
+    unsafe {
+        libc::prctl(libc::PR_SET_THP_DISABLE, 1, 0, 0, 0);
+    }
     let tokens: usize = std::env::var("JUNCTURE_BENCH_TOKENS")
         .ok()
         .and_then(|v| v.parse().ok())
