@@ -77,10 +77,7 @@ fn compound_types(rules: &RuleSet, lexicon: &Lexicon, n: usize) -> Vec<String> {
     let nouns: Vec<&str> = lexicon
         .entries()
         .filter(|e| {
-            e.key.chars().count() >= 4
-                && e.readings
-                    .iter()
-                    .any(|r| r.get("pos").map(String::as_str) == Some("noun"))
+            e.key.chars().count() >= 4 && e.readings.iter().any(|r| r.get("pos") == Some("noun"))
         })
         .take(20_000)
         .map(|e| e.form.as_str())

@@ -534,7 +534,7 @@ impl Candidates<'_> {
             for r in rs {
                 if let Some(v) = r.get(&c.key) {
                     key_seen = true;
-                    values.insert(v.clone());
+                    values.insert(v.to_string());
                 }
             }
         }
@@ -615,7 +615,7 @@ fn never_fires(set: &RuleSet, files: &[RuleFile], lexicon: &Lexicon, out: &mut V
             .iter()
             .map(|p| {
                 let mut t: Tags = p.tags.iter().cloned().collect();
-                t.insert("pattern".into(), p.name.clone());
+                t.insert("pattern", &p.name);
                 vec![t]
             })
             .collect(),

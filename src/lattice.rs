@@ -234,7 +234,7 @@ pub fn part_readings<'a>(
         PartSource::Pattern(p) => {
             let pat = &rules.patterns[p];
             let mut tags: Tags = pat.tags.iter().cloned().collect();
-            tags.insert("pattern".into(), pat.name.clone());
+            tags.insert("pattern", &pat.name);
             *pattern_tags = vec![tags];
             pattern_tags
         }
@@ -1222,7 +1222,7 @@ impl<'a> Builder<'a> {
             r.get("pos")
                 .is_some_and(|p| p.split('|').any(|v| v == "noun"))
                 && !r.contains_key("lemma")
-                && r.get("proper").map(String::as_str) != Some("yes")
+                && r.get("proper") != Some("yes")
         })
     }
 

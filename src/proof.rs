@@ -32,7 +32,7 @@ pub struct Part {
     /// End of that stretch.
     pub end: usize,
     /// Tags; where readings differ, the values are joined with `|`.
-    pub tags: BTreeMap<String, String>,
+    pub tags: Tags,
     /// Every reading, when the form has more than one.
     #[serde(skip_serializing_if = "Vec::is_empty")]
     pub readings: Vec<Tags>,
@@ -56,7 +56,7 @@ impl Part {
             }
         } else {
             for r in &self.readings {
-                let l = r.get(LEMMA_TAG).map_or(self.form.as_str(), String::as_str);
+                let l = r.get(LEMMA_TAG).unwrap_or(self.form.as_str());
                 if !out.contains(&l) {
                     out.push(l);
                 }
@@ -153,16 +153,16 @@ impl Analysis {
     }
 }
 
-fn merge_tags(readings: &[Tags]) -> BTreeMap<String, String> {
+fn merge_tags(readings: &[Tags]) -> Tags {
     if let [only] = readings {
         return only.clone();
     }
     let mut out: BTreeMap<String, Vec<String>> = BTreeMap::new();
     for r in readings {
         for (k, v) in r {
-            let vals = out.entry(k.clone()).or_default();
-            if !vals.contains(v) {
-                vals.push(v.clone());
+            let vals = out.entry(k.to_string()).or_default();
+            if !vals.iter().any(|x| x == v) {
+                vals.push(v.to_string());
             }
         }
     }

@@ -30,17 +30,14 @@ fn columns_comments_and_optional_fields() {
     assert_eq!(lex.len(), 4);
     let e = lex.entry(lex.get("brel").unwrap());
     assert_eq!(e.frequency, 30.0);
-    assert_eq!(e.readings[0].get("role").map(String::as_str), Some("first"));
-    assert_eq!(e.readings[0].get("pos").map(String::as_str), Some("noun"));
+    assert_eq!(e.readings[0].get("role"), Some("first"));
+    assert_eq!(e.readings[0].get("pos"), Some("noun"));
     // Frequency optional (1), tags optional (none), tags in the second column.
     assert_eq!(lex.entry(lex.get("krum").unwrap()).readings[0].len(), 0);
     assert_eq!(lex.entry(lex.get("zot").unwrap()).frequency, 1.0);
     let vasp = lex.entry(lex.get("vasp").unwrap());
     assert_eq!(vasp.frequency, 1.0);
-    assert_eq!(
-        vasp.readings[0].get("pos").map(String::as_str),
-        Some("verb")
-    );
+    assert_eq!(vasp.readings[0].get("pos"), Some("verb"));
 }
 
 #[test]
@@ -75,7 +72,7 @@ fn duplicate_forms_merge_frequencies_and_keep_readings() {
         .flat_map(|a| &a.parts)
         .find(|p| p.form == "mora")
         .expect("tam + mora");
-    assert_eq!(mora.tags.get("pos").map(String::as_str), Some("noun|verb"));
+    assert_eq!(mora.tags.get("pos"), Some("noun|verb"));
     assert_eq!(mora.readings.len(), 2);
 }
 

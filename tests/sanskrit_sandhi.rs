@@ -1334,8 +1334,8 @@ fn a_possessive_compound_declines_its_last_noun_in_the_gender_it_needs() {
             a.parts.iter().map(|p| p.form.clone()).collect(),
             format!(
                 "{} {}",
-                last.tags.get("gender").cloned().unwrap_or_default(),
-                last.tags.get("role").cloned().unwrap_or_default()
+                last.tags.get("gender").unwrap_or_default().to_string(),
+                last.tags.get("role").unwrap_or_default().to_string()
             ),
         ))
     };
@@ -1376,13 +1376,7 @@ fn a_possessive_compound_declines_its_last_noun_in_the_gender_it_needs() {
         assert_eq!(last, format!("{gender} last"), "{word}");
     }
     let vidyah = analyzer.split("alpavidyaḥ", 1);
-    assert_eq!(
-        vidyah.analyses[0].parts[1]
-            .tags
-            .get("stem")
-            .map(String::as_str),
-        Some("vidyā")
-    );
+    assert_eq!(vidyah.analyses[0].parts[1].tags.get("stem"), Some("vidyā"));
     // The noun's own gender is a plain form, as before: balam (n.) stands alone.
     assert!(!analyzer.split("balam", 1).analyses.is_empty());
 }

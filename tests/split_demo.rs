@@ -113,10 +113,7 @@ fn offsets_of_the_changed_junctions() {
     // An open-class part (pattern) after a hyphen.
     let tor12 = &find("tor-12").analyses[0];
     assert_eq!(tor12.parts[1].source, "pattern:number");
-    assert_eq!(
-        tor12.parts[1].tags.get("pos").map(String::as_str),
-        Some("number")
-    );
+    assert_eq!(tor12.parts[1].tags.get("pos"), Some("number"));
 }
 
 #[test]

@@ -13,12 +13,13 @@ pub mod bundled;
 pub mod compiled;
 pub mod sanskrit;
 mod step_cache;
+mod tags;
 
 use crate::normalize::Normalizer;
 use crate::rules::{Condition, RuleSet};
 use compiled::{IndexBytes, LazyEntries};
 use fst::raw::{CompiledAddr, Output};
-use std::collections::{BTreeMap, BTreeSet, HashMap};
+use std::collections::{BTreeSet, HashMap};
 pub use step_cache::StepCache;
 
 /// Largest frequency an entry keeps (larger ones, and sums of duplicates
@@ -27,8 +28,7 @@ pub use step_cache::StepCache;
 /// there nor make the sum of all frequencies infinite.
 pub const MAX_FREQUENCY: f64 = f32::MAX as f64;
 
-/// Tags of one reading of an entry.
-pub type Tags = BTreeMap<String, String>;
+pub use tags::Tags;
 
 /// One lexicon entry.
 #[derive(Debug, Clone, PartialEq)]
@@ -354,7 +354,7 @@ impl Lexicon {
         let total_frequency = entries.iter().map(|e| e.frequency).sum::<f64>().max(1.0);
         let tag_keys = entries
             .iter()
-            .flat_map(|e| e.readings.iter().flat_map(|r| r.keys().cloned()))
+            .flat_map(|e| e.readings.iter().flat_map(|r| r.keys().map(str::to_string)))
             .collect();
         Lexicon {
             id: step_cache::next_lexicon_id(),
@@ -627,7 +627,7 @@ pub const ANY_VALUE: &str = "*";
 /// tests the normalized form itself.
 pub fn condition_holds(condition: &Condition, key: &str, readings: &[Tags]) -> bool {
     fn value_of<'t>(r: &'t Tags, key: &str) -> Option<&'t str> {
-        r.get(key).map(String::as_str)
+        r.get(key)
     }
     if let Some(bound) = condition.bound {
         // `letters` counts the form's characters; another key's value is
@@ -800,10 +800,7 @@ mod tests {
     fn tags_in_second_column() {
         let (lex, issues) = lexicon("ve\tpos=prefix;role=first\n");
         assert!(issues.is_empty());
-        assert_eq!(
-            lex.entry(0).readings[0].get("role").map(String::as_str),
-            Some("first")
-        );
+        assert_eq!(lex.entry(0).readings[0].get("role"), Some("first"));
     }
 
     #[test]
