@@ -6,48 +6,91 @@ use crate::analyzer::{Analyzer, SplitRecord};
 use std::collections::HashMap;
 use std::sync::Arc;
 
-/// Values of recent distinct inputs, at most `capacity` of them, in two
-/// generations: when the newer one is half the capacity, the older one is
-/// dropped and the newer one becomes it; an input found in the older one
-/// moves back to the newer. Frequent words (natural text repeats a few
-/// heavily) stay, and memory stays bounded. A capacity of 0 keeps nothing.
+/// Values of recent distinct inputs, at most `capacity` of them and at most
+/// `budget` bytes by their own reckoning, in two generations: when the newer
+/// one holds half the capacity or half the budget, the older one is dropped
+/// and the newer one becomes it; an input found in the older one moves back
+/// to the newer. Frequent words (natural text repeats a few heavily) stay,
+/// and memory stays bounded. A capacity of 0 keeps nothing.
 #[derive(Debug)]
 pub struct TypeCache<V> {
     capacity: usize,
-    newer: HashMap<String, V>,
-    older: HashMap<String, V>,
+    budget: usize,
+    newer: Generation<V>,
+    older: Generation<V>,
 }
 
+/// One generation of a [`TypeCache`]: values with their sizes, and the sum.
+#[derive(Debug)]
+struct Generation<V> {
+    values: HashMap<String, (V, usize)>,
+    bytes: usize,
+}
+
+impl<V> Default for Generation<V> {
+    fn default() -> Self {
+        Generation {
+            values: HashMap::new(),
+            bytes: 0,
+        }
+    }
+}
+
+/// What a kept input costs besides its key and value: the table slot, the
+/// key's heap block and the value's (common practice for a hash map of
+/// strings, rounded up).
+const ENTRY_OVERHEAD: usize = 64;
+
 impl<V: Clone> TypeCache<V> {
-    /// An empty cache of at most `capacity` inputs.
+    /// An empty cache of at most `capacity` inputs (no byte budget).
     pub fn new(capacity: usize) -> Self {
+        TypeCache::with_budget(capacity, usize::MAX)
+    }
+
+    /// An empty cache of at most `capacity` inputs and `budget` bytes, as
+    /// counted by [`insert_sized`](Self::insert_sized).
+    pub fn with_budget(capacity: usize, budget: usize) -> Self {
         TypeCache {
             capacity,
-            newer: HashMap::new(),
-            older: HashMap::new(),
+            budget,
+            newer: Generation::default(),
+            older: Generation::default(),
         }
     }
 
     /// The value of `key`, if it is kept.
     pub fn get(&mut self, key: &str) -> Option<V> {
-        if let Some(v) = self.newer.get(key) {
+        if let Some((v, _)) = self.newer.values.get(key) {
             return Some(v.clone());
         }
-        let (key, v) = self.older.remove_entry(key)?;
-        self.insert_owned(key, v.clone());
+        let (key, (v, size)) = self.older.values.remove_entry(key)?;
+        self.older.bytes -= size;
+        self.insert_owned(key, v.clone(), size);
         Some(v)
     }
 
-    /// Keeps `value` for `key` (nothing with a capacity of 0).
+    /// Keeps `value` for `key` (nothing with a capacity of 0), counting only
+    /// the key and a fixed overhead against the budget.
     pub fn insert(&mut self, key: &str, value: V) {
-        if self.capacity > 0 {
-            self.insert_owned(key.to_string(), value);
+        self.insert_sized(key, value, 0);
+    }
+
+    /// Keeps `value`, which takes `value_bytes` of memory besides itself,
+    /// for `key` (nothing with a capacity of 0, or when the value alone
+    /// would take more than half the budget).
+    pub fn insert_sized(&mut self, key: &str, value: V, value_bytes: usize) {
+        let size = key
+            .len()
+            .saturating_add(value_bytes)
+            .saturating_add(ENTRY_OVERHEAD);
+        if self.capacity > 0 && size <= self.budget / 2 {
+            self.insert_owned(key.to_string(), value, size);
         }
     }
 
     /// How many inputs are kept.
     pub fn len(&self) -> usize {
-        self.newer.len() + self.older.len()
+        self.newer.values.len() + self.older.values.len()
     }
 
     /// Whether nothing is kept.
@@ -55,11 +98,21 @@ impl<V: Clone> TypeCache<V> {
         self.len() == 0
     }
 
-    fn insert_owned(&mut self, key: String, value: V) {
-        if self.newer.len() >= self.capacity.div_ceil(2) {
+    /// The bytes the kept inputs take, as counted against the budget.
+    pub fn bytes(&self) -> usize {
+        self.newer.bytes + self.older.bytes
+    }
+
+    fn insert_owned(&mut self, key: String, value: V, size: usize) {
+        if self.newer.values.len() >= self.capacity.div_ceil(2)
+            || self.newer.bytes.saturating_add(size) > self.budget / 2
+        {
             self.older = std::mem::take(&mut self.newer);
         }
-        self.newer.insert(key, value);
+        self.newer.bytes += size;
+        if let Some((_, old)) = self.newer.values.insert(key, (value, size)) {
+            self.newer.bytes -= old;
+        }
     }
 }
 
@@ -135,6 +188,35 @@ mod tests {
         let mut off = TypeCache::new(0);
         off.insert("x", 1);
         assert_eq!(off.get("x"), None);
+    }
+
+    #[test]
+    fn the_byte_budget_bounds_the_cache_and_keeps_frequent_words() {
+        // Each entry costs its key, its value's bytes and the overhead.
+        let each = 1 + 100 + ENTRY_OVERHEAD;
+        let mut cache = TypeCache::with_budget(1000, 4 * each);
+        cache.insert_sized("a", 1, 100);
+        cache.insert_sized("b", 2, 100);
+        assert_eq!(cache.bytes(), 2 * each);
+        // The newer generation is at half the budget: it becomes the older.
+        cache.insert_sized("c", 3, 100);
+        assert_eq!(cache.get("a"), Some(1));
+        cache.insert_sized("d", 4, 100);
+        cache.insert_sized("e", 5, 100);
+        assert_eq!(cache.get("b"), None);
+        assert_eq!(cache.get("a"), Some(1));
+        for i in 0..100 {
+            cache.insert_sized(&format!("{}", i % 10), i, 100);
+            assert!(cache.bytes() <= 4 * each, "{} bytes", cache.bytes());
+        }
+        // A value bigger than half the budget is not kept at all.
+        cache.insert_sized("huge", 0, 10 * each);
+        assert_eq!(cache.get("huge"), None);
+        // Replacing a key's value counts it once.
+        let mut one = TypeCache::with_budget(10, 100 * each);
+        one.insert_sized("a", 1, 100);
+        one.insert_sized("a", 2, 100);
+        assert_eq!((one.len(), one.bytes(), one.get("a")), (1, each, Some(2)));
     }
 
     #[test]

@@ -44,6 +44,9 @@ fn jobs_and_cache_keep_output_identical_and_in_order() {
         &["--jobs", "2"],
         &["--jobs", "3", "--cache", "2"],
         &["--jobs", "4", "--cache", "0"],
+        // A budget too small for any record keeps nothing.
+        &["--cache-mb", "0"],
+        &["--jobs", "2", "--cache-mb", "1"],
     ] {
         assert!(
             split(extra, &input) == plain,

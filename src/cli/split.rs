@@ -134,6 +134,12 @@ pub struct SplitArgs {
     /// used by a streamed `--all` listing.
     #[arg(long, default_value_t = 100_000, value_name = "N")]
     pub cache: usize,
+    /// Most megabytes of rendered output the type cache of each worker
+    /// keeps (a word's JSON record is some hundreds of bytes, its
+    /// `--format terms` line a few dozen), so that memory stays bounded
+    /// whatever the format; the frequent words stay.
+    #[arg(long, default_value_t = 16, value_name = "MB")]
+    pub cache_mb: usize,
     /// Script of the input, for rule-sets written in a transliteration
     /// (`set script`: Sanskrit); `auto` detects it line by line. The input is
     /// transliterated before analysis; offsets count characters of that
@@ -215,8 +221,7 @@ pub fn run(args: SplitArgs) -> Result<i32, Failure> {
     // blocks of lines for several.
     let batch_size = if jobs == 1 { 1 } else { 256 * jobs };
     let mut batch: Vec<InputLine> = Vec::with_capacity(batch_size);
-    let mut caches: Vec<TypeCache<Arc<Cached>>> =
-        (0..jobs).map(|_| TypeCache::new(args.cache)).collect();
+    let mut caches: Vec<TypeCache<Arc<Cached>>> = (0..jobs).map(|_| args.type_cache()).collect();
     for_each_input_with(&args.words, progress(&args), |line| {
         if let (Some(analysed), Ok(text)) = (analysed, &line) {
             let to = args.output_script.and_then(ScriptArg::script);
@@ -508,7 +513,7 @@ fn run_tokens(args: &SplitArgs, analyzer: &Analyzer, k: usize) -> Result<i32, Fa
     let failed = std::cell::Cell::new(0usize);
     // Rendered output (and whether it failed) of recent tokens: running
     // text repeats its words, and a token's lines depend on it alone.
-    let mut cache: TypeCache<Arc<Cached>> = TypeCache::new(args.cache);
+    let mut cache: TypeCache<Arc<Cached>> = args.type_cache();
     let mut one = |token: &str, writer: &mut RecordWriter| -> Result<(), Failure> {
         if let Some(hit) = cache.get(token) {
             if hit.failed {
@@ -544,12 +549,14 @@ fn run_tokens(args: &SplitArgs, analyzer: &Analyzer, k: usize) -> Result<i32, Fa
             || output::split_tsv(&record.record),
         )?;
         writer.write_rendered(&rendered)?;
-        cache.insert(
+        let bytes = rendered.capacity();
+        cache.insert_sized(
             token,
             Arc::new(Cached {
                 rendered,
                 failed: failure,
             }),
+            bytes,
         );
         Ok(())
     };
@@ -586,6 +593,13 @@ fn run_tokens(args: &SplitArgs, analyzer: &Analyzer, k: usize) -> Result<i32, Fa
     } else {
         EXIT_OK
     })
+}
+
+impl SplitArgs {
+    /// An empty type cache as `--cache` and `--cache-mb` ask.
+    fn type_cache(&self) -> TypeCache<Arc<Cached>> {
+        TypeCache::with_budget(self.cache, self.cache_mb.saturating_mul(1 << 20))
+    }
 }
 
 /// An input's rendered output and whether it failed: what the type cache
@@ -664,7 +678,7 @@ fn flush_batch(
                         analyzer.split(text, k)
                     };
                     let cached = render(&record)?;
-                    cache.insert(text, Arc::clone(&cached));
+                    cache.insert_sized(text, Arc::clone(&cached), cached.rendered.capacity());
                     Ok(cached)
                 }
                 Err(bad) => render(&SplitRecord::failed(bad.lossy.clone(), bad.reason.clone())),
