@@ -812,3 +812,53 @@ proptest! {
         }
     }
 }
+
+#[test]
+fn non_thematic_participles_irregular_an_stems_and_d_j_stems() {
+    // Whitney §444 (from memory): non-thematic present participles have the
+    // strong stem in -ant only in the masculine's strong cases.
+    let p = paradigm("sat", "at-ppr-weak");
+    check(&p, "m.nom.sg", &["san"]);
+    check(&p, "m.acc.sg", &["santam"]);
+    check(&p, "m.acc.pl", &["sataḥ"]);
+    check(&p, "m.ins.sg", &["satā"]);
+    check(&p, "m.loc.pl", &["satsu"]);
+    check(&p, "n.nom.du", &["satī"]);
+    check(&p, "n.nom.pl", &["santi"]);
+    check(&p, "f.nom.sg", &["satī"]);
+    let p = paradigm("kurvat", "at-ppr-weak");
+    check(&p, "m.nom.sg", &["kurvan"]);
+    check(&p, "f.nom.sg", &["kurvatī"]);
+    // ... against the thematic ones (gacchantī).
+    check(&paradigm("gacchat", "at-ppr"), "f.nom.sg", &["gacchantī"]);
+    // Whitney §427–§428 (from memory): yuvan, śvan, maghavan.
+    let p = paradigm("yuvan", "an-m-yuvan");
+    check(&p, "m.nom.sg", &["yuvā"]);
+    check(&p, "m.acc.sg", &["yuvānam"]);
+    check(&p, "m.acc.pl", &["yūnaḥ"]);
+    check(&p, "m.ins.sg", &["yūnā"]);
+    check(&p, "m.ins.pl", &["yuvabhiḥ"]);
+    check(&p, "m.loc.pl", &["yuvasu"]);
+    check(&p, "m.voc.sg", &["yuvan"]);
+    let p = paradigm("śvan", "an-m-śvan");
+    check(&p, "m.nom.sg", &["śvā"]);
+    check(&p, "m.acc.pl", &["śunaḥ"]);
+    check(&p, "m.ins.du", &["śvabhyām"]);
+    let p = paradigm("maghavan", "an-m-maghavan");
+    check(&p, "m.nom.sg", &["maghavā"]);
+    check(&p, "m.acc.pl", &["maghonaḥ"]);
+    // Whitney §389, §391–§392 (from memory): d → t, j → k at the end and
+    // before s, voiced before bh.
+    let p = paradigm("śarad", "d-f");
+    check(&p, "f.nom.sg", &["śarat"]);
+    check(&p, "f.ins.sg", &["śaradā"]);
+    check(&p, "f.ins.pl", &["śaradbhiḥ"]);
+    check(&p, "f.loc.pl", &["śaratsu"]);
+    check(&paradigm("suhṛd", "d-m"), "m.nom.pl", &["suhṛdaḥ"]);
+    let p = paradigm("vaṇij", "j-m");
+    check(&p, "m.nom.sg", &["vaṇik"]);
+    check(&p, "m.ins.sg", &["vaṇijā"]);
+    check(&p, "m.ins.pl", &["vaṇigbhiḥ"]);
+    check(&p, "m.loc.pl", &["vaṇikṣu"]);
+    check(&paradigm("sraj", "j-f"), "f.nom.sg", &["srak"]);
+}

@@ -119,6 +119,12 @@ pub fn compound_stem(stem: &str, class: &str) -> String {
             out.pop();
             out.push('k');
         }
+        // The d-stems' word-final form (suhṛt-, śarat-); the sandhi rules
+        // voice it again before a voiced sound (śaradṛtu).
+        Some('d') if class.starts_with("d-") => {
+            out.pop();
+            out.push('t');
+        }
         _ => {}
     }
     out
@@ -320,6 +326,10 @@ mod tests {
         assert_eq!(compound_stem("manas", "as-n"), "manaḥ");
         assert_eq!(compound_stem("vāc", "c-f"), "vāk");
         assert_eq!(compound_stem("diś", "ś-f"), "dik");
+        assert_eq!(compound_stem("vaṇij", "j-m"), "vaṇik");
+        assert_eq!(compound_stem("suhṛd", "d-m"), "suhṛt");
+        assert_eq!(compound_stem("tad", "pron-tad"), "tad");
+        assert_eq!(compound_stem("yuvan", "an-m-yuvan"), "yuva");
         assert_eq!(compound_stem("deva", "a-m"), "deva");
         assert_eq!(compound_stem("bhagavat", "vat"), "bhagavat");
     }
