@@ -200,7 +200,10 @@ pub fn shown_form(rules: &RuleSet, form: String, readings: &[Tags], head: Option
 /// otherwise only verb readings without a `lemma` (the infinitive itself)
 /// is a nominalised infinitive, and only its noun readings count:
 /// *Lebensmittel* is *Leben* + s + *Mittel*, *Essenszeit* *Essen* + s +
-/// *Zeit*.
+/// *Zeit*. So is one whose other readings are adverbs spelt like the noun
+/// (*mittag*, *morgen*): first members are nouns far more often than
+/// adverbs (common practice of German word formation), so *Mittagessen* is
+/// *Mittag* + *Essen*.
 fn shown_readings<'r>(
     rules: &RuleSet,
     key: &str,
@@ -222,9 +225,9 @@ fn shown_readings<'r>(
     let pos_is = |r: &Tags, pos: &str| r.get("pos").is_some_and(|p| p.split('|').any(|v| v == pos));
     let nominalised = after.is_some_and(|i| i.left.is_empty())
         && shown.iter().any(|r| pos_is(r, "noun"))
-        && shown
-            .iter()
-            .all(|r| pos_is(r, "noun") || (pos_is(r, "verb") && !r.contains_key("lemma")));
+        && shown.iter().all(|r| {
+            pos_is(r, "noun") || pos_is(r, "adv") || (pos_is(r, "verb") && !r.contains_key("lemma"))
+        });
     if nominalised {
         shown.retain(|r| pos_is(r, "noun"));
     }
@@ -266,6 +269,41 @@ fn shown_form_of(rules: &RuleSet, form: String, readings: &[&Tags], head: Option
     out
 }
 
+/// The lexicon form, or the input's own spelling of the word where the two
+/// differ only by a fold of the rule-set and the input has the letter that
+/// is folded (German folds ß to ss): *Maßnahme* is shown as written, though
+/// the lexicon's most frequent spelling is *Massnahme*. The form's first
+/// letter keeps its case; a form with capitals inside is kept as it is.
+fn spelled_as_in_input(rules: &RuleSet, form: String, written: &str) -> String {
+    let normalizer = &rules.normalizer;
+    if normalizer.folds.is_empty() {
+        return form;
+    }
+    let folded_letter = |s: &str| {
+        s.chars()
+            .flat_map(char::to_lowercase)
+            .any(|c| normalizer.folds.contains_key(&c))
+    };
+    let mut form_chars = form.chars();
+    let form_first_upper = form_chars.next().is_some_and(char::is_uppercase);
+    if !folded_letter(written)
+        || folded_letter(&form)
+        || form_chars.any(char::is_uppercase)
+        || normalizer.normalize(written) != normalizer.normalize(&form)
+    {
+        return form;
+    }
+    let mut out = String::with_capacity(written.len());
+    for (i, c) in written.chars().enumerate() {
+        if i == 0 && form_first_upper {
+            out.extend(c.to_uppercase());
+        } else {
+            out.extend(c.to_lowercase());
+        }
+    }
+    out
+}
+
 /// Whether an input starts with a capital (`None`: with no letter), for
 /// [`shown_form`].
 pub fn head_case(original: &[char]) -> Option<bool> {
@@ -295,7 +333,16 @@ pub fn analysis(
                 let mut scratch = Vec::new();
                 let readings = part_readings(rules, lexicon, w.source, &mut scratch);
                 let (form, source) = match w.source {
-                    PartSource::Entry(id) => (lexicon.form(id, &w.key), "lexicon".to_string()),
+                    PartSource::Entry(id) => {
+                        let written = format!(
+                            "{}{}{}",
+                            w.carried,
+                            text.original_slice(w.start, w.end),
+                            w.left_end
+                        );
+                        let form = spelled_as_in_input(rules, lexicon.form(id, &w.key), &written);
+                        (form, "lexicon".to_string())
+                    }
                     PartSource::Pattern(p) => (
                         text.original_slice(w.start, w.end),
                         format!("pattern:{}", rules.patterns[p].name),

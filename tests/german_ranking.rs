@@ -197,7 +197,9 @@ fn join_lists_unattested_linking_forms_after_the_others() {
 /// The bundled German lexicon writes ß where the current orthography does
 /// (wordfreq's list folds it to ss; the lexicon build puts it back from a
 /// spelling dictionary, see lexicons/README.md). Input in either spelling
-/// finds the same parts; the parts are shown in the lexicon's spelling.
+/// finds the same parts; the parts are shown in the lexicon's spelling, or
+/// as the input writes them where it has ß and the lexicon ss (a form the
+/// dictionary did not know, or the older orthography).
 #[test]
 fn the_bundled_lexicon_spells_sharp_s_as_the_current_orthography_does() {
     let rules = german();
@@ -211,6 +213,12 @@ fn the_bundled_lexicon_spells_sharp_s_as_the_current_orthography_does() {
     // (Schloß, Fluß before 1996).
     assert_eq!(best("Schlossgarten"), ["Schloss", "Garten"]);
     assert_eq!(best("Flussufer"), ["Fluss", "Ufer"]);
+    // The lexicon's most frequent spelling is Massnahme (Swiss); ß in the
+    // input is shown as written, its first letter cased as the lexicon's.
+    assert_eq!(best("Maßnahmenpaket"), ["Maßnahme", "Paket"]);
+    assert_eq!(best("maßnahmenpaket"), ["Maßnahme", "Paket"]);
+    assert_eq!(best("Massnahmenpaket"), ["Massnahme", "Paket"]);
+    assert_eq!(best("Schloßgarten"), ["Schloß", "Garten"]);
 }
 
 #[test]
@@ -305,13 +313,15 @@ fn noun_capitals_show_each_part_as_its_readings_and_the_heads_case_say() {
 /// A part is spelled as the readings its junctions license: a verb stem
 /// joined by a verb-stem rule is the verb, and an infinitive written in full
 /// before a linking element or a plain junction, with a noun reading too,
-/// is the nominalised infinitive (the noun). The small lexicon is invented;
+/// is the nominalised infinitive (the noun), as an adverb spelt like a noun
+/// is the noun. The small lexicon is invented;
 /// its frequencies make the verb spelling the lexicon's most frequent one.
 #[test]
 fn a_part_is_spelled_as_the_readings_its_junctions_license() {
     let tsv = "leben\t900\tpos=verb\nLeben\tpos=noun\nMittel\t500\tpos=noun\n\
                schreiben\t800\tpos=verb\nSchreiben\tpos=noun\nTisch\t400\tpos=noun\n\
-               Lauf\t300\tpos=noun\nhoch\t700\tpos=adj\nHoch\tpos=noun\nHaus\t600\tpos=noun\n";
+               Lauf\t300\tpos=noun\nhoch\t700\tpos=adj\nHoch\tpos=noun\nHaus\t600\tpos=noun\n\
+               mittag\t900\tpos=adv\nMittag\tpos=noun\nEssen\t500\tpos=noun\n";
     let rules = german();
     let lex = lexicon(&rules, tsv);
     assert_eq!(
@@ -327,6 +337,8 @@ fn a_part_is_spelled_as_the_readings_its_junctions_license() {
     // An adjective with a noun homograph is not an infinitive: as the
     // lexicon spells it.
     assert_eq!(best_forms(&rules, &lex, "Hochhaus"), ["hoch", "Haus"]);
+    // An adverb with a noun homograph is the noun as a first member.
+    assert_eq!(best_forms(&rules, &lex, "Mittagessen"), ["Mittag", "Essen"]);
 }
 
 /// `set hyphenated-compounds = on` in the German rule-set: a hyphen may
