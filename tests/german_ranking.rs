@@ -427,3 +427,32 @@ fn replacive_s_is_not_read_after_a_one_syllable_noun() {
         "{all:?}"
     );
 }
+
+/// Words of the bundled lexicon that look like compounds and are not: a
+/// present participle is a verb stem and -end- (not + Ende), the short
+/// function adverbs form words of their own (sowohl, nochmal), and a verb
+/// stem takes no verb after it. Real compounds of the same shapes still
+/// split.
+#[test]
+fn participles_function_adverbs_and_verb_pairs_stay_whole() {
+    let rules = german();
+    let lexicon = bundled(&rules);
+    let best = |word: &str| best_forms(&rules, &lexicon, word);
+    for word in [
+        "bestehende",
+        "kommenden",
+        "fehlende",
+        "lebenden",
+        "sowohl",
+        "nochmal",
+        "soweit",
+        "daheim",
+        "geblieben",
+    ] {
+        assert_eq!(best(word).len(), 1, "{word}: {:?}", best(word));
+    }
+    assert_eq!(best("Wochenende"), ["Woche", "Ende"]);
+    assert_eq!(best("Gehweg"), ["gehen", "Weg"]);
+    assert_eq!(best("Rinderbraten"), ["Rind", "Braten"]);
+    assert_eq!(best("Zusammenarbeit"), ["zusammen", "Arbeit"]);
+}
