@@ -1383,3 +1383,39 @@ fn a_possessive_compound_declines_its_last_noun_in_the_gender_it_needs() {
     // The noun's own gender is a plain form, as before: balam (n.) stands alone.
     assert!(!analyzer.split("balam", 1).analyses.is_empty());
 }
+
+/// Words added with the non-thematic participles, the irregular an-stems,
+/// the d- and j-stems and a few common stems: each sandhi example (invented
+/// for the project) is read with the expected words among its two best
+/// analyses.
+#[test]
+fn new_stem_classes_are_read_through_sandhi() {
+    let (rules, lexicon) = setup();
+    let analyzer = Analyzer::new(&rules, &lexicon);
+    for (surface, want) in [
+        ("sann api", "san+api"),
+        ("yuvā rājā", "yuvā+rājā"),
+        ("vaṇigjanaḥ", "vaṇik+janaḥ"),
+        ("śaradṛtuḥ", "śarat+ṛtuḥ"),
+        ("yuvarājaḥ", "yuva+rājaḥ"),
+        ("sūryo 'stam eti", "sūryaḥ+astam+eti"),
+        ("sadācāraḥ", "sat+ācāraḥ"),
+        ("tanmātram", "tat+mātram"),
+        ("saccit", "sat+cit"),
+        ("manoharaḥ", "manaḥ+haraḥ"),
+    ] {
+        let record = analyzer.split(surface, 2);
+        let got: Vec<String> = record
+            .analyses
+            .iter()
+            .map(|a| {
+                a.parts
+                    .iter()
+                    .map(|p| p.form.as_str())
+                    .collect::<Vec<_>>()
+                    .join("+")
+            })
+            .collect();
+        assert!(got.iter().any(|g| g == want), "{surface}: {got:?}");
+    }
+}
