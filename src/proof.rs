@@ -725,12 +725,20 @@ pub fn join(
     };
     search.enumerate();
     result.truncated = search.truncated;
-    // Ways that write a first word as a form the lexicon does not have for
-    // it (a rule's `attested` clause: Arbeit + ens + Amt) are listed after
-    // the others, then cheaper first, and at equal costs the surfaces with
-    // fewer printed hyphens first (a hyphen twin of `set
-    // hyphenated-compounds` after the word written together).
-    let mut found: Vec<((usize, usize), (f64, Vec<usize>, String))> = search
+    // A surface that is itself a lexicon word comes first, the more
+    // frequent first: the rules allow Arbeitensamt and Arbeitsamt, the
+    // lexicon shows which one the language writes. Then ways that write a
+    // first word as a form the lexicon does not have for it (a rule's
+    // `attested` clause: Arbeit + ens + Amt) are listed after the others,
+    // then cheaper first, and at equal costs the surfaces with fewer
+    // printed hyphens first (a hyphen twin of `set hyphenated-compounds`
+    // after the word written together).
+    let known = |surface: &str| {
+        lexicon
+            .get(&rules.normalizer.normalize(surface))
+            .map(|id| lexicon.frequency(id))
+    };
+    let found: Vec<((usize, usize), (f64, Vec<usize>, String))> = search
         .found
         .into_iter()
         .map(|way| {
@@ -753,13 +761,26 @@ pub fn join(
             ((unattested, hyphens), way)
         })
         .collect();
-    found.sort_by(|(ka, a), (kb, b)| {
-        ka.0.cmp(&kb.0)
+    let found: Vec<(Option<f64>, (usize, usize), (f64, Vec<usize>, String))> = found
+        .into_iter()
+        .map(|(k, way)| (known(&way.2), k, way))
+        .collect();
+    let mut found = found;
+    found.sort_by(|(fa, ka, a), (fb, kb, b)| {
+        // Known surfaces first, the most frequent first.
+        let by_frequency = match (fa, fb) {
+            (Some(x), Some(y)) => y.total_cmp(x),
+            (Some(_), None) => std::cmp::Ordering::Less,
+            (None, Some(_)) => std::cmp::Ordering::Greater,
+            (None, None) => std::cmp::Ordering::Equal,
+        };
+        by_frequency
+            .then_with(|| ka.0.cmp(&kb.0))
             .then_with(|| a.0.total_cmp(&b.0))
             .then_with(|| ka.1.cmp(&kb.1))
             .then_with(|| a.2.cmp(&b.2))
     });
-    let found: Vec<(f64, Vec<usize>, String)> = found.into_iter().map(|(_, way)| way).collect();
+    let found: Vec<(f64, Vec<usize>, String)> = found.into_iter().map(|(_, _, way)| way).collect();
     result.count = found.len();
     if found.len() > limit {
         result.truncated = true;

@@ -194,6 +194,34 @@ fn join_lists_unattested_linking_forms_after_the_others() {
     );
 }
 
+/// A joined surface that the lexicon has as a word of its own comes first,
+/// whatever its rule costs: the bundled German lexicon has Arbeitsamt and
+/// Kindergarten, not the cheaper Arbeitenamt or Kinder-Garten.
+#[test]
+fn join_lists_surfaces_the_lexicon_knows_first() {
+    let rules = german();
+    let lexicon = bundled(&rules);
+    let first = |a: &str, b: &str| {
+        join(&rules, &lexicon, &[a, b], ScopeFilter::Compound, 5)
+            .results
+            .first()
+            .map(|j| j.surface.clone())
+    };
+    assert_eq!(first("Arbeit", "Amt").as_deref(), Some("Arbeitsamt"));
+    assert_eq!(first("Kind", "Garten").as_deref(), Some("Kindergarten"));
+    assert_eq!(first("Herz", "Wunsch").as_deref(), Some("Herzenswunsch"));
+    assert_eq!(first("Schule", "Buch").as_deref(), Some("Schulbuch"));
+    // -ens- belongs to Herz and Schmerz only.
+    let kind = join(
+        &rules,
+        &lexicon,
+        &["Kind", "Garten"],
+        ScopeFilter::Compound,
+        50,
+    );
+    assert!(kind.results.iter().all(|j| !j.surface.contains("ens")));
+}
+
 /// The bundled German lexicon writes ß where the current orthography does
 /// (wordfreq's list folds it to ss; the lexicon build puts it back from a
 /// spelling dictionary, see lexicons/README.md). Input in either spelling
