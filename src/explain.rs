@@ -587,10 +587,19 @@ pub fn breakdown(
                 Ranking::Frequency => (f.max(1.0).ln() / n, 0.0),
                 Ranking::Probability => (lexicon.log_probability(*f), -options.part_cost),
             };
-            let bonus = lexicon
+            // The parts come as shown (Hochzeit); the index holds keys.
+            let id = lexicon
                 .get(form)
-                .map_or(0.0, |id| search::lexicalised_bonus(lexicon, id, options));
-            let first = match lexicon.get(form) {
+                .or_else(|| lexicon.get(&rules.normalizer.normalize(form)));
+            let bonus = id.map_or(0.0, |id| {
+                search::lexicalised_bonus(lexicon, id, options)
+                    + if count == 1 {
+                        search::whole_word_bonus(lexicon, id, options)
+                    } else {
+                        0.0
+                    }
+            });
+            let first = match id {
                 Some(id) if i + 1 < count => search::first_member_bonus(lexicon, id, options),
                 _ => 0.0,
             };

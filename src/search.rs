@@ -294,7 +294,11 @@ impl Weights<'_> {
             .zip(live)
             .map(|(e, &live)| {
                 if live {
-                    self.terms(e.weight(), e.target() == lattice.end)
+                    self.terms(
+                        e.weight(),
+                        e.target() == lattice.end,
+                        e.source() == lattice.start,
+                    )
                 } else {
                     EdgeTerms {
                         term: f64::NEG_INFINITY,
@@ -307,8 +311,10 @@ impl Weights<'_> {
     }
 
     /// The terms of an edge, computed once per lattice; `last` says the
-    /// edge ends the input (a last part earns no `first-member-bonus`).
-    fn terms(&self, edge: &Edge, last: bool) -> EdgeTerms {
+    /// edge ends the input (a last part earns no `first-member-bonus`),
+    /// `first` that it starts it (with `last`: the whole input, which earns
+    /// the bonus of a name, see [`whole_word_bonus`]).
+    fn terms(&self, edge: &Edge, last: bool, first: bool) -> EdgeTerms {
         match edge {
             Edge::Word(w) => {
                 let (term, divided) = match self.options.ranking {
@@ -325,6 +331,11 @@ impl Weights<'_> {
                     {
                         Some(
                             lexicalised_bonus(self.lexicon, id, self.options)
+                                + if first && last {
+                                    whole_word_bonus(self.lexicon, id, self.options)
+                                } else {
+                                    0.0
+                                }
                                 + if last {
                                     0.0
                                 } else {
@@ -349,6 +360,25 @@ impl Weights<'_> {
                 }
             }
         }
+    }
+}
+
+/// What an entry read as the whole input earns besides its
+/// [`lexicalised_bonus`]: the `lexicalised-bonus` again when it is read
+/// only as a proper noun (every reading `proper=yes`), else 0. A name
+/// that is written like a compound is not one in meaning (Freiburg,
+/// Wolfsburg, Holland), so it is kept whole like a lexicalised word; a
+/// name as one part of a longer word earns nothing (the frequency list's
+/// short names, Tom, Ben, would win splits otherwise).
+pub fn whole_word_bonus(lexicon: &Lexicon, id: usize, options: &SearchOptions) -> f64 {
+    if options.lexicalised_bonus == 0.0 || lexicalised_bonus(lexicon, id, options) != 0.0 {
+        return 0.0;
+    }
+    let readings = lexicon.readings(id);
+    if !readings.is_empty() && readings.iter().all(|r| r.get("proper") == Some("yes")) {
+        options.lexicalised_bonus
+    } else {
+        0.0
     }
 }
 
@@ -1005,11 +1035,12 @@ fn unique_path(
     };
     let mut score = 0.0;
     for &e in &edges {
-        let last = lattice
-            .graph
-            .edge_endpoints(e)
-            .is_some_and(|(_, target)| target == lattice.end);
-        score += weights.terms(&lattice.graph[e], last).weight(divisor);
+        let ends = lattice.graph.edge_endpoints(e);
+        let last = ends.is_some_and(|(_, target)| target == lattice.end);
+        let first = ends.is_some_and(|(source, _)| source == lattice.start);
+        score += weights
+            .terms(&lattice.graph[e], last, first)
+            .weight(divisor);
     }
     Some(Some(ScoredPath {
         edges,

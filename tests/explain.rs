@@ -91,6 +91,47 @@ fn the_score_breakdown_adds_up_to_the_score() {
     }
 }
 
+/// With the German bonuses: a lexicalised word (Hochzeit) and a name kept
+/// whole (Freiburg) show their bonus, and every breakdown adds up to the
+/// score, also for parts shown with a capital the index does not have.
+#[test]
+fn the_german_breakdown_counts_the_bonuses() {
+    let rules = compile_named("german", &CompileOptions::default()).unwrap();
+    let (lexicon, _) = Lexicon::for_rules(&rules, &[], true, false).unwrap();
+    let analyzer = Analyzer::new(&rules, &lexicon);
+    for word in ["Hochzeit", "Freiburg", "Hochzeitstag", "Arbeitsamt"] {
+        let e = explain(&analyzer, word, None, &ExplainOptions::default());
+        assert!(!e.ranked.is_empty(), "{word}");
+        for r in &e.ranked {
+            let b = &r.breakdown;
+            let sum: f64 = b
+                .parts
+                .iter()
+                .map(|p| {
+                    p.frequency_term + p.part_cost + p.lexicalised_bonus + p.first_member_bonus
+                })
+                .sum::<f64>()
+                + b.junctions
+                    .iter()
+                    .map(|j| j.rule_cost + j.split_cost)
+                    .sum::<f64>();
+            assert!(
+                (sum - r.analysis.score).abs() < 1e-3 && (b.total - r.analysis.score).abs() < 1e-3,
+                "{word}: {sum} / {} vs {}",
+                b.total,
+                r.analysis.score
+            );
+        }
+        if word == "Hochzeit" || word == "Freiburg" {
+            assert_eq!(e.ranked[0].analysis.parts.len(), 1, "{word}");
+            assert_eq!(
+                e.ranked[0].breakdown.parts[0].lexicalised_bonus, 6.0,
+                "{word}"
+            );
+        }
+    }
+}
+
 #[test]
 fn why_not_a_part_missing_from_the_lexicon() {
     let (rules, lexicon) = demo();
