@@ -738,7 +738,9 @@ pub fn join(
             .get(&rules.normalizer.normalize(surface))
             .map(|id| lexicon.frequency(id))
     };
-    let found: Vec<((usize, usize), (f64, Vec<usize>, String))> = search
+    // A way: its cost, its instances and its surface.
+    type Way = (f64, Vec<usize>, String);
+    let found: Vec<((usize, usize), Way)> = search
         .found
         .into_iter()
         .map(|way| {
@@ -761,7 +763,7 @@ pub fn join(
             ((unattested, hyphens), way)
         })
         .collect();
-    let found: Vec<(Option<f64>, (usize, usize), (f64, Vec<usize>, String))> = found
+    let found: Vec<(Option<f64>, (usize, usize), Way)> = found
         .into_iter()
         .map(|(k, way)| (known(&way.2), k, way))
         .collect();

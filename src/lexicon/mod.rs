@@ -300,7 +300,7 @@ pub fn parse_tags(text: &str) -> Result<Tags, String> {
         if k.is_empty() {
             return Err(format!("tag `{pair}` has an empty key"));
         }
-        tags.insert(k.to_string(), v.to_string());
+        tags.insert(k, v);
     }
     Ok(tags)
 }
