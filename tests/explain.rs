@@ -17,6 +17,29 @@ fn run(analyzer: &Analyzer, word: &str, expect: &str) -> Explanation {
     explain(analyzer, word, Some(&parts), &ExplainOptions::default())
 }
 
+/// Every ranked analysis's terms, bonuses included, add up to its score,
+/// and so does the breakdown's total.
+fn assert_breakdowns_add_up(word: &str, e: &Explanation) {
+    for r in &e.ranked {
+        let b = &r.breakdown;
+        let sum: f64 = b
+            .parts
+            .iter()
+            .map(|p| p.frequency_term + p.part_cost + p.lexicalised_bonus + p.first_member_bonus)
+            .sum::<f64>()
+            + b.junctions
+                .iter()
+                .map(|j| j.rule_cost + j.split_cost)
+                .sum::<f64>();
+        assert!(
+            (sum - r.analysis.score).abs() < 1e-3 && (b.total - r.analysis.score).abs() < 1e-3,
+            "{word}: {sum} / {} vs {}",
+            b.total,
+            r.analysis.score
+        );
+    }
+}
+
 fn findings(e: &Explanation) -> &[Finding] {
     &e.expected.as_ref().unwrap().findings
 }
@@ -68,25 +91,13 @@ fn the_score_breakdown_adds_up_to_the_score() {
     for word in ["tammora", "solanavitor", "ketabura", "ed ano", "tor-12"] {
         let e = explain(&analyzer, word, None, &ExplainOptions::default());
         assert!(!e.ranked.is_empty(), "{word}");
+        assert_breakdowns_add_up(word, &e);
         for r in &e.ranked {
-            let b = &r.breakdown;
-            let sum: f64 = b
-                .parts
-                .iter()
-                .map(|p| p.frequency_term + p.part_cost)
-                .sum::<f64>()
-                + b.junctions
-                    .iter()
-                    .map(|j| j.rule_cost + j.split_cost)
-                    .sum::<f64>();
-            assert!(
-                (sum - r.analysis.score).abs() < 1e-3,
-                "{word}: {sum} vs {}",
-                r.analysis.score
+            assert_eq!(r.breakdown.parts.len(), r.analysis.parts.len());
+            assert_eq!(
+                r.breakdown.parts[0].part_cost, -2.0,
+                "demo sets part-cost = 2"
             );
-            assert!((b.total - r.analysis.score).abs() < 1e-3);
-            assert_eq!(b.parts.len(), r.analysis.parts.len());
-            assert_eq!(b.parts[0].part_cost, -2.0, "demo sets part-cost = 2");
         }
     }
 }
@@ -102,26 +113,7 @@ fn the_german_breakdown_counts_the_bonuses() {
     for word in ["Hochzeit", "Freiburg", "Hochzeitstag", "Arbeitsamt"] {
         let e = explain(&analyzer, word, None, &ExplainOptions::default());
         assert!(!e.ranked.is_empty(), "{word}");
-        for r in &e.ranked {
-            let b = &r.breakdown;
-            let sum: f64 = b
-                .parts
-                .iter()
-                .map(|p| {
-                    p.frequency_term + p.part_cost + p.lexicalised_bonus + p.first_member_bonus
-                })
-                .sum::<f64>()
-                + b.junctions
-                    .iter()
-                    .map(|j| j.rule_cost + j.split_cost)
-                    .sum::<f64>();
-            assert!(
-                (sum - r.analysis.score).abs() < 1e-3 && (b.total - r.analysis.score).abs() < 1e-3,
-                "{word}: {sum} / {} vs {}",
-                b.total,
-                r.analysis.score
-            );
-        }
+        assert_breakdowns_add_up(word, &e);
         if word == "Hochzeit" || word == "Freiburg" {
             assert_eq!(e.ranked[0].analysis.parts.len(), 1, "{word}");
             assert_eq!(
