@@ -489,3 +489,42 @@ fn participles_function_adverbs_and_verb_pairs_stay_whole() {
     assert_eq!(best("Rinderbraten"), ["Rind", "Braten"]);
     assert_eq!(best("Zusammenarbeit"), ["zusammen", "Arbeit"]);
 }
+
+/// Verbs that form no bare-stem first part (modal verbs; geben and werden,
+/// whose compounds take Geber-, Gabe-, Werde-), participles in -end- after a
+/// noun that spells a verb stem (zero linking or a dropped -e before Ende),
+/// and the words the orthography rules of 2006 (§45) no longer count as
+/// compounds stay whole (bundled lexicon). Real compounds of the same shapes
+/// still split.
+#[test]
+fn verbs_without_bare_stems_and_participles_after_nouns_stay_whole() {
+    let rules = german();
+    let lexicon = bundled(&rules);
+    let best = |word: &str| best_forms(&rules, &lexicon, word);
+    for word in [
+        // not sollen/können + Test
+        "solltest",
+        "könntest",
+        // not geben + Rauch
+        "Gebrauch",
+        // not Folge/Lauf/Vorsitz/Entscheid + Ende
+        "folgende",
+        "laufenden",
+        "Vorsitzende",
+        "entscheidende",
+        // §45: not Mitte + Tag, dritte + Teil
+        "Mittag",
+        "Drittel",
+        // a derivation of halten, not gehen + Alt
+        "Gehalt",
+        "Gehälter",
+    ] {
+        assert_eq!(best(word).len(), 1, "{word}: {:?}", best(word));
+    }
+    assert_eq!(best("Schreibtisch"), ["schreiben", "Tisch"]);
+    assert_eq!(best("Esszimmer"), ["essen", "Zimmer"]);
+    assert_eq!(best("Kriegsende"), ["Krieg", "Ende"]);
+    assert_eq!(best("Jahresende"), ["Jahr", "Ende"]);
+    assert_eq!(best("Redezeit"), ["reden", "Zeit"]);
+    assert_eq!(best("Mittagessen"), ["Mittag", "Essen"]);
+}
