@@ -225,3 +225,21 @@ fn the_cli_exits_2_and_prints_the_diagnostics_on_stderr() {
         assert!(err.contains(&format!("error[{}]", codes[0])), "{file}");
     }
 }
+
+/// A one-letter class member that the rule-set's folds turn into several
+/// letters (`fold ß = ss`) makes those letters one segment everywhere: the
+/// rule-set compiles, with a warning at the member saying so; a member that
+/// stays one letter gives none.
+#[test]
+fn a_class_member_folded_to_several_letters_is_warned_about() {
+    let text = "language x\nfold ß = ss\nclass c = a ß\nrule r \"r\": [x:c] + -> [x] |\n  cost 1\n";
+    let set = compile("fold.jr", text, None, &CompileOptions::default()).expect("compiles");
+    let codes: Vec<&str> = set.warnings.iter().map(|w| w.code).collect();
+    assert_eq!(codes, ["class-member-folds"]);
+    let at = set.warnings[0].location.clone().expect("a place");
+    assert_eq!((at.line, at.column), (3, 13));
+    assert!(set.warnings[0].to_string().contains("`ss`"));
+    let plain = text.replace(" ß\n", " b\n");
+    let set = compile("fold.jr", &plain, None, &CompileOptions::default()).expect("compiles");
+    assert!(set.warnings.is_empty(), "{:?}", set.warnings);
+}

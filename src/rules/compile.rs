@@ -792,7 +792,30 @@ fn resolve_class(
             break;
         }
         match m {
-            ClassMember::Segment(s) => members.push(normalizer.normalize(&s.value)),
+            ClassMember::Segment(s) => {
+                let normalized = normalizer.normalize(&s.value);
+                if s.value.chars().count() == 1 && normalized.chars().count() > 1 {
+                    // A letter the rule-set folds (`fold ß = ss`) becomes a
+                    // segment of several letters, and the input is then never
+                    // cut inside those letters anywhere: easy to write by
+                    // accident, so said.
+                    let d = Diagnostic::warning(
+                        "class-member-folds",
+                        format!(
+                            "`{}` in class `{name}` is folded to `{normalized}`, which becomes a segment of {} letters: no junction can fall between those letters anywhere in an input",
+                            s.value,
+                            normalized.chars().count()
+                        ),
+                        cx.at(s.span),
+                    )
+                    .with_hint(format!(
+                        "leave `{}` out of the class (the input is folded too), or list `{normalized}` if one segment is meant",
+                        s.value
+                    ));
+                    cx.diagnostics.push(d);
+                }
+                members.push(normalized)
+            }
             ClassMember::Class(r) => {
                 let visiting = &*walk.visiting;
                 if visiting.iter().any(|v| v == &r.value) {
