@@ -1419,3 +1419,31 @@ fn new_stem_classes_are_read_through_sandhi() {
         assert!(got.iter().any(|g| g == want), "{surface}: {got:?}");
     }
 }
+
+/// Common vocabulary added to the stem lists (nature, body, society) is read
+/// through the sandhi of its compounds, and the best analysis is the
+/// expected one: vowel merger (`hima + ālaya`), voicing of a final stop
+/// before a vowel (`dik + ambara`), a plain join (`rāṣṭra + pati`) and
+/// visarga before a short `a` in running text (`dinakaraḥ 'stam`).
+/// Expected splits: common practice of the classical grammar.
+#[test]
+fn added_common_vocabulary_is_read_through_sandhi() {
+    let (rules, lexicon) = setup();
+    let analyzer = Analyzer::new(&rules, &lexicon);
+    for (surface, want) in [
+        ("himālayaḥ", "hima+ālayaḥ"),
+        ("digambaraḥ", "dik+ambaraḥ"),
+        ("rāṣṭrapatiḥ", "rāṣṭra+patiḥ"),
+        ("dinakaro 'stam eti", "dinakaraḥ+astam+eti"),
+    ] {
+        let record = analyzer.split(surface, 1);
+        let best = record.analyses.first().map(|a| {
+            a.parts
+                .iter()
+                .map(|p| p.form.as_str())
+                .collect::<Vec<_>>()
+                .join("+")
+        });
+        assert_eq!(best.as_deref(), Some(want), "{surface}");
+    }
+}
