@@ -591,6 +591,13 @@ def stray_verb(reading, known):
             and fold_ss(reading["lemma"].lower()) not in known)
 
 
+def vowelless_lemma(reading, vowels):
+    """The reading's lemma has no vowel: the tagger read an abbreviation as the
+    stem of an inflected form (lte: lemma lt, Mme: lemma Mm)."""
+    lemma = reading.get("lemma")
+    return bool(lemma) and not any(c in vowels for c in lemma.lower())
+
+
 def is_unknown(score):
     """HanTa does not know the form: its best reading scores below UNKNOWN_SCORE."""
     return score is not None and score < UNKNOWN_SCORE
@@ -835,6 +842,13 @@ def build(lang, outdir, tag_cache=None):
                     and form not in sharp_s.known):
                 dropped["unknown"] = dropped.get("unknown", 0) + 1
                 continue
+            vowelless = [r for r in readings if vowelless_lemma(r, vowels)]
+            if vowelless:
+                dropped["vowelless lemma"] = dropped.get("vowelless lemma", 0) + 1
+                readings = [r for r in readings if not vowelless_lemma(r, vowels)]
+                if not readings:
+                    continue
+                e = (form, e[1], readings, score)
             if len(form) <= STRAY_VERB_MAX_LEN:
                 rest = [r for r in readings if not stray_verb(r, sharp_s.known)]
                 if len(rest) < len(readings):
@@ -937,6 +951,9 @@ def build(lang, outdir, tag_cache=None):
         header.append(f"#   - verb readings of forms of at most {STRAY_VERB_MAX_LEN} letters whose lemma the spelling "
                       f"dictionary does not list (ren: lemma ger) dropped, with the form when it has no other "
                       f"reading ({dropped.get('stray verb', 0)} forms)")
+        header.append(f"#   - readings whose lemma has no vowel (lte: lemma lt, Mme: lemma Mm; an abbreviation "
+                      f"read as a stem) dropped, with the form when it has no other reading "
+                      f"({dropped.get('vowelless lemma', 0)} forms)")
         header.append(f"#   - lexicalised=yes on every reading of the forms in lexicons/{LEXICALISED_FILE} "
                       "(a hand list, from memory) and on readings whose lemma is one of them")
     header.append(f"# entries: {len(entries)} (from {raw} in the wordfreq list)"

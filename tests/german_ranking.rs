@@ -528,3 +528,20 @@ fn verbs_without_bare_stems_and_participles_after_nouns_stay_whole() {
     assert_eq!(best("Redezeit"), ["reden", "Zeit"]);
     assert_eq!(best("Mittagessen"), ["Mittag", "Essen"]);
 }
+
+/// Verb forms whose split would need a noun with its -e dropped before a
+/// verb (entlassen: not Ente + lassen) or a junk entry of the frequency list
+/// (handelte: not Hand + `lte`, an abbreviation the tagger read as an
+/// adjective; such readings are dropped from the bundled lexicon) stay
+/// whole. A dropped -e before a noun still splits (bundled lexicon).
+#[test]
+fn verbs_are_not_read_as_a_noun_without_its_e_or_with_a_junk_head() {
+    let rules = german();
+    let lexicon = bundled(&rules);
+    let best = |word: &str| best_forms(&rules, &lexicon, word);
+    for word in ["entlassen", "handelte"] {
+        assert_eq!(best(word).len(), 1, "{word}: {:?}", best(word));
+    }
+    assert_eq!(best("Schulgarten"), ["Schule", "Garten"]);
+    assert_eq!(best("Kirchturm"), ["Kirche", "Turm"]);
+}
