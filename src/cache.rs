@@ -3,7 +3,7 @@
 //! words stay when it is full.
 
 use crate::analyzer::{Analyzer, SplitRecord};
-use std::collections::HashMap;
+use rustc_hash::FxHashMap;
 use std::sync::Arc;
 
 /// Values of recent distinct inputs, at most `capacity` of them and at most
@@ -23,14 +23,16 @@ pub struct TypeCache<V> {
 /// One generation of a [`TypeCache`]: values with their sizes, and the sum.
 #[derive(Debug)]
 struct Generation<V> {
-    values: HashMap<String, (V, usize)>,
+    /// Keyed by the input with a fast non-cryptographic hash: the keys are
+    /// the tool's own input, and a flooded table only slows it down.
+    values: FxHashMap<String, (V, usize)>,
     bytes: usize,
 }
 
 impl<V> Default for Generation<V> {
     fn default() -> Self {
         Generation {
-            values: HashMap::new(),
+            values: FxHashMap::default(),
             bytes: 0,
         }
     }

@@ -328,6 +328,10 @@ struct PendingPart<'a> {
     /// The number of `carried` (see `SurfaceTrie::right_id`).
     right: u32,
     pending: Option<usize>,
+    /// The word before it was read as a noun in an input that starts with
+    /// a small letter, under `set verb-after-noun = capitalised`: no word
+    /// read only as a verb may be read here (see [`noun_before_verb`]).
+    after_noun: bool,
 }
 
 /// An entry that a walk of the lexicon from a part node found (see
@@ -361,10 +365,11 @@ struct Builder<'a> {
     matches: Vec<(u32, usize)>,
     match_start: Vec<usize>,
     graph: DiGraph<Node, Edge>,
-    /// Joint nodes by (position, instance).
-    joints: IntMap<(usize, usize)>,
-    /// Part nodes by (position, right start number, pending rule).
-    parts: IntMap<(usize, u32, Option<usize>)>,
+    /// Joint nodes by (position, instance, whether a noun comes before).
+    joints: IntMap<(usize, usize, bool)>,
+    /// Part nodes by (position, right start number, pending rule, whether
+    /// a noun comes before).
+    parts: IntMap<(usize, u32, Option<usize>, bool)>,
     parts_at: Vec<Vec<PendingPart<'a>>>,
     /// Per node: (position, rank at that position) for the topological order.
     order_keys: Vec<(usize, u8)>,
@@ -395,6 +400,10 @@ struct Builder<'a> {
     memo: &'a ConditionMemo,
     /// Scratch text of the word being tested.
     key: String,
+    /// `set verb-after-noun = capitalised` and the input starts with a
+    /// small letter: a word read as a noun is not followed by one read
+    /// only as a verb.
+    small_verb_word: bool,
 }
 
 /// Whether the condition lists of a rule-set hold for the entries of a
@@ -501,8 +510,8 @@ struct Scratch {
     steps: StepCache,
     matches: Vec<(u32, usize)>,
     match_start: Vec<usize>,
-    joints: IntMap<(usize, usize)>,
-    parts: IntMap<(usize, u32, Option<usize>)>,
+    joints: IntMap<(usize, usize, bool)>,
+    parts: IntMap<(usize, u32, Option<usize>, bool)>,
     order_keys: Vec<(usize, u8)>,
     stack: Vec<(u32, Cursor, Option<usize>)>,
     walks: IntMap<(usize, u32), (usize, usize, usize, usize)>,
@@ -650,13 +659,20 @@ pub fn build_with(
         walk_ids: scratch.walk_ids,
         memo,
         key: scratch.key,
+        small_verb_word: rules.settings.verb_after_noun_capitalised
+            && text
+                .original
+                .iter()
+                .find(|c| c.is_alphabetic())
+                .is_some_and(|c| c.is_lowercase()),
     };
-    b.parts.insert((0, 0, None), start);
+    b.parts.insert((0, 0, None, false), start);
     b.parts_at[0].push(PendingPart {
         node: start,
         carried: "",
         right: 0,
         pending: None,
+        after_noun: false,
     });
     b.find_junctions();
     for pos in 0..=n {
@@ -745,8 +761,8 @@ impl<'a> Builder<'a> {
             .collect()
     }
 
-    fn joint(&mut self, pos: usize, instance: usize) -> (NodeIndex, bool) {
-        if let Some(&i) = self.joints.get(&(pos, instance)) {
+    fn joint(&mut self, pos: usize, instance: usize, after_noun: bool) -> (NodeIndex, bool) {
+        if let Some(&i) = self.joints.get(&(pos, instance, after_noun)) {
             return (i, false);
         }
         let i = self.graph.add_node(Node::Joint { pos, instance });
@@ -756,13 +772,19 @@ impl<'a> Builder<'a> {
             2
         };
         self.order_keys.push((pos, rank));
-        self.joints.insert((pos, instance), i);
+        self.joints.insert((pos, instance, after_noun), i);
         (i, true)
     }
 
-    fn part(&mut self, pos: usize, instance: usize, pending: Option<usize>) -> NodeIndex {
+    fn part(
+        &mut self,
+        pos: usize,
+        instance: usize,
+        pending: Option<usize>,
+        after_noun: bool,
+    ) -> NodeIndex {
         let right = self.rules.surface_trie.right_id(instance);
-        let key = (pos, right, pending);
+        let key = (pos, right, pending, after_noun);
         if let Some(&i) = self.parts.get(&key) {
             return i;
         }
@@ -778,6 +800,7 @@ impl<'a> Builder<'a> {
             carried,
             right,
             pending,
+            after_noun,
         });
         self.parts.insert(key, i);
         i
@@ -825,9 +848,17 @@ impl<'a> Builder<'a> {
         &self,
         node: NodeIndex,
         pending: Option<usize>,
+        after_noun: bool,
         key: &str,
         source: PartSource,
     ) -> bool {
+        if after_noun {
+            let mut scratch = Vec::new();
+            let readings = part_readings(self.rules, self.lexicon, source, &mut scratch);
+            if only_verb(readings) {
+                return false;
+            }
+        }
         if let Some(rule) = pending {
             let conds = &self.rules.rules[rule].right_conditions;
             if !self.conditions_hold(conds, self.rules.condition_ids.right[rule], key, source) {
@@ -894,7 +925,7 @@ impl<'a> Builder<'a> {
             return;
         }
         if part.carried.is_empty() {
-            self.pattern_words(part.node, pos, part.pending);
+            self.pattern_words(part.node, pos, part.pending, part.after_noun);
         }
     }
 
@@ -1074,7 +1105,13 @@ impl<'a> Builder<'a> {
         let key = key_buf.as_str();
         let whole = node == self.start;
         if self.aligned(key, span.carried_chars, 0)
-            && self.word_allowed(node, part.pending, key, PartSource::Entry(id))
+            && self.word_allowed(
+                node,
+                part.pending,
+                part.after_noun,
+                key,
+                PartSource::Entry(id),
+            )
             && self.conditions_hold(
                 &self.rules.edge_end,
                 self.rules.condition_ids.edge_end,
@@ -1137,6 +1174,7 @@ impl<'a> Builder<'a> {
         let source = PartSource::Entry(id);
         // What depends only on the entry and the left end is checked once.
         let mut word_ok: Option<bool> = None;
+        let after_noun = self.small_verb_word && self.read_as_noun(source);
         for &inst_id in group {
             let inst = &rules.instances[inst_id];
             if !self.options.scope.allows(inst.scope) {
@@ -1144,7 +1182,7 @@ impl<'a> Builder<'a> {
             }
             let ok = *word_ok.get_or_insert_with(|| {
                 self.aligned(key, span.carried_chars, left_chars)
-                    && self.word_allowed(part.node, part.pending, key, source)
+                    && self.word_allowed(part.node, part.pending, part.after_noun, key, source)
             });
             if !ok {
                 break;
@@ -1193,7 +1231,15 @@ impl<'a> Builder<'a> {
                 frequency: self.lexicon.frequency(id),
             };
             let (q, after) = (span.q, span.after);
-            self.join_to(part.node, q, inst_id, after, pending_next, Edge::Word(edge));
+            self.join_to(
+                part.node,
+                q,
+                inst_id,
+                after,
+                pending_next,
+                after_noun,
+                Edge::Word(edge),
+            );
         }
         self.key = key_buf;
     }
@@ -1233,11 +1279,12 @@ impl<'a> Builder<'a> {
         inst_id: usize,
         after: usize,
         pending_next: Option<usize>,
+        after_noun: bool,
         edge: Edge,
     ) {
-        let (joint, fresh) = self.joint(q, inst_id);
+        let (joint, fresh) = self.joint(q, inst_id, after_noun);
         if fresh {
-            let next = self.part(after, inst_id, pending_next);
+            let next = self.part(after, inst_id, pending_next, after_noun);
             self.add_edge(joint, next, Edge::Junction { instance: inst_id });
         }
         self.add_edge(from, joint, edge);
@@ -1258,7 +1305,13 @@ impl<'a> Builder<'a> {
     /// Open-class parts: a run of segments of a pattern's class, standing at
     /// the start of the input or after a printed space or hyphen, and ending at
     /// the end of the input or before one.
-    fn pattern_words(&mut self, node: NodeIndex, pos: usize, pending: Option<usize>) {
+    fn pattern_words(
+        &mut self,
+        node: NodeIndex,
+        pos: usize,
+        pending: Option<usize>,
+        after_noun: bool,
+    ) {
         if self.rules.patterns.is_empty() {
             return;
         }
@@ -1291,9 +1344,10 @@ impl<'a> Builder<'a> {
                 }
                 let key: String = self.chars[pos..q].iter().collect();
                 let source = PartSource::Pattern(pi);
-                if !self.word_allowed(node, pending, &key, source) {
+                if !self.word_allowed(node, pending, after_noun, &key, source) {
                     continue;
                 }
+                let noun_before = self.small_verb_word && self.read_as_noun(source);
                 let edge = WordEdge {
                     source,
                     key: key.clone(),
@@ -1337,6 +1391,7 @@ impl<'a> Builder<'a> {
                             inst_id,
                             after,
                             pending_next,
+                            noun_before,
                             Edge::Word(edge.clone()),
                         );
                     }
@@ -1344,11 +1399,77 @@ impl<'a> Builder<'a> {
             }
         }
     }
+
+    /// Whether a part is read as a noun (see [`noun_before_verb`]).
+    fn read_as_noun(&self, source: PartSource) -> bool {
+        let mut scratch = Vec::new();
+        read_as_noun(part_readings(
+            self.rules,
+            self.lexicon,
+            source,
+            &mut scratch,
+        ))
+    }
+}
+
+/// Under `set verb-after-noun = capitalised`, in an input that starts with a
+/// small letter, a word read as a noun is not followed by a word read only
+/// as a verb. A word written small is no noun and no nominalised infinitive
+/// (German orthography), so its last part gives it the word class of a
+/// verb, and verbs written as one word take particles, adverbs and
+/// adjectives before them, not nouns (zugelassen is not Zug + lassen,
+/// verbrennt not Verb + rennt); the few that do (teilnehmen, heimkehren)
+/// have a first part the lexicon also reads as a particle. Capitalised, the
+/// same letters are a nominalisation and a noun may come first
+/// (Autofahren, Sprachlernen). Common practice of German orthography and
+/// word formation.
+pub fn noun_before_verb(left: &[Tags], right: &[Tags]) -> bool {
+    read_as_noun(left) && only_verb(right)
+}
+
+/// Some reading has `pos=noun` and none has `pos` adj, adv or other (a
+/// form that is also a particle or an adjective is not refused).
+fn read_as_noun(readings: &[Tags]) -> bool {
+    let has = |r: &Tags, v: &str| r.get("pos").is_some_and(|p| p.split('|').any(|x| x == v));
+    readings.iter().any(|r| has(r, "noun"))
+        && !readings
+            .iter()
+            .any(|r| has(r, "adj") || has(r, "adv") || has(r, "other"))
+}
+
+/// Every reading has `pos=verb` and no other part of speech.
+fn only_verb(readings: &[Tags]) -> bool {
+    !readings.is_empty()
+        && readings.iter().all(|r| {
+            r.get("pos")
+                .is_some_and(|p| p.split('|').all(|x| x == "verb"))
+        })
 }
 
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    fn readings(list: &[&str]) -> Vec<Tags> {
+        list.iter()
+            .map(|pos| [("pos".to_string(), pos.to_string())].into_iter().collect())
+            .collect()
+    }
+
+    #[test]
+    fn a_noun_before_a_verb_is_told_by_every_reading() {
+        let (noun, verb) = (readings(&["noun"]), readings(&["verb"]));
+        assert!(noun_before_verb(&noun, &verb));
+        // A noun that is also a verb form (Miss, miss) is still a noun here.
+        assert!(noun_before_verb(&readings(&["noun", "verb"]), &verb));
+        // Also a particle or an adjective: not refused.
+        assert!(!noun_before_verb(&readings(&["noun", "other"]), &verb));
+        assert!(!noun_before_verb(&readings(&["adj"]), &verb));
+        // A second part that is also a noun: not refused.
+        assert!(!noun_before_verb(&noun, &readings(&["verb", "noun"])));
+        assert!(!noun_before_verb(&noun, &readings(&["noun|verb"])));
+        assert!(!noun_before_verb(&noun, &[]));
+    }
 
     /// `ab`+`cd`, and `abc`, after which no word starts: a dead end.
     #[test]

@@ -545,3 +545,67 @@ fn verbs_are_not_read_as_a_noun_without_its_e_or_with_a_junk_head() {
     assert_eq!(best("Schulgarten"), ["Schule", "Garten"]);
     assert_eq!(best("Kirchturm"), ["Kirche", "Turm"]);
 }
+
+/// `set verb-after-noun = capitalised`: in a word written small, a part read
+/// as a noun takes no part read only as a verb after it; capitalised (a
+/// nominalised infinitive) it does, and a first part also read as an
+/// adjective or particle is never refused. `split` and `join` agree.
+/// Invented lexicon: the forms are German, the frequencies made up.
+#[test]
+fn a_verb_follows_a_noun_only_in_a_capitalised_word() {
+    let text = "language t\ncase fold\nset verb-after-noun = capitalised\n\
+                rule join: + -> |\n  in compound\n";
+    let rules = compile_str("t.jr", text);
+    let lexicon = lexicon(
+        &rules,
+        "Haus\t500\tpos=noun\nbauen\t400\tpos=verb\nfest\t300\tpos=adj\n\
+         Teil\t300\tpos=noun\nteil\tpos=other\nBau\t200\tpos=noun\n",
+    );
+    let forms = |word: &str| -> Vec<Vec<String>> {
+        record(&rules, &lexicon, word)
+            .record
+            .analyses
+            .iter()
+            .map(|a| a.parts.iter().map(|p| p.key.clone()).collect())
+            .collect()
+    };
+    assert!(forms("hausbauen").is_empty(), "{:?}", forms("hausbauen"));
+    assert_eq!(forms("Hausbauen"), [["haus", "bauen"]]);
+    assert_eq!(forms("festbauen"), [["fest", "bauen"]]);
+    assert_eq!(forms("teilbauen"), [["teil", "bauen"]]);
+    // A noun after a noun is not touched.
+    assert_eq!(forms("hausbau"), [["haus", "bau"]]);
+    let joined = |parts: &[&str]| join(&rules, &lexicon, parts, ScopeFilter::Compound, 10).results;
+    assert!(joined(&["haus", "bauen"]).is_empty());
+    assert_eq!(joined(&["Haus", "bauen"])[0].surface, "Hausbauen");
+    assert_eq!(joined(&["fest", "bauen"])[0].surface, "festbauen");
+    // Without the setting the small word splits too.
+    let always = compile_str("t.jr", &text.replace("capitalised", "always"));
+    let lexicon = self::lexicon(&always, "Haus\t500\tpos=noun\nbauen\t400\tpos=verb\n");
+    let rec = record(&always, &lexicon, "hausbauen").record;
+    assert_eq!(rec.analyses.len(), 1);
+}
+
+/// With the bundled German rules and lexicon, verb forms written small are
+/// not read as a noun + verb (zugelassen, verbrennt, beigetragen,
+/// geheiratet), while the capitalised nominalisation and particle verbs
+/// still split.
+#[test]
+fn small_verb_forms_are_not_read_as_noun_plus_verb() {
+    let rules = german();
+    let lexicon = bundled(&rules);
+    let best = |word: &str| best_forms(&rules, &lexicon, word);
+    for word in [
+        "zugelassen",
+        "verbrennt",
+        "beigetragen",
+        "geheiratet",
+        "missbraucht",
+        "versendet",
+    ] {
+        assert_eq!(best(word).len(), 1, "{word}: {:?}", best(word));
+    }
+    assert_eq!(best("Autofahren"), ["Auto", "Fahren"]);
+    assert_eq!(best("bushaltestelle"), ["Bus", "Haltestelle"]);
+    assert_eq!(best("teilnehmen").len(), 2);
+}

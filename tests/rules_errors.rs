@@ -243,3 +243,21 @@ fn a_class_member_folded_to_several_letters_is_warned_about() {
     let set = compile("fold.jr", &plain, None, &CompileOptions::default()).expect("compiles");
     assert!(set.warnings.is_empty(), "{:?}", set.warnings);
 }
+
+#[test]
+fn an_unknown_verb_after_noun_value_is_an_error_with_the_choices() {
+    let d = compile(
+        "inline.jr",
+        "language x\nset verb-after-noun = sometimes\n",
+        None,
+        &CompileOptions::default(),
+    )
+    .unwrap_err();
+    let text = d.to_string();
+    assert!(
+        text.contains("unknown value `sometimes` of `verb-after-noun`"),
+        "{text}"
+    );
+    assert!(text.contains(" --> inline.jr:2:"), "{text}");
+    assert!(text.contains("`always`, or `capitalised`"), "{text}");
+}

@@ -544,6 +544,7 @@ const SETTINGS: &[&str] = &[
     "first-member-bonus",
     "noun-capitals",
     "hyphenated-compounds",
+    "verb-after-noun",
 ];
 
 fn apply_setting(cx: &mut Context, settings: &mut Settings, s: &SetDecl) {
@@ -666,6 +667,20 @@ fn apply_setting(cx: &mut Context, settings: &mut Settings, s: &SetDecl) {
                 settings.hyphenated_compounds = on;
             }
         }
+        "verb-after-noun" => match word(cx).as_deref() {
+            Some("always") => settings.verb_after_noun_capitalised = false,
+            Some("capitalised") => settings.verb_after_noun_capitalised = true,
+            Some(other) => cx.error(
+                "setting-value",
+                format!("unknown value `{other}` of `verb-after-noun`"),
+                s.value.span,
+                Some(
+                    "use `always`, or `capitalised`: a part read only as a verb follows one read as a noun only in an input that starts with a capital (German: Autofahren, but not zug + lassen)"
+                        .into(),
+                ),
+            ),
+            None => {}
+        },
         "lexicon" => settings.lexicon = word(cx),
         "script" => settings.script = word(cx),
         _ => cx.error(

@@ -277,6 +277,11 @@ pub struct Settings {
     /// junctions print nothing (`Zeitungs-Artikel`, `deva-putraḥ`): every
     /// such instance gets a twin with a hyphen (see the rules reference).
     pub hyphenated_compounds: bool,
+    /// `verb-after-noun = capitalised`: in an input that starts with a small
+    /// letter, a part read as a noun is not followed by one read only as a
+    /// verb (see [`crate::lattice::noun_before_verb`]); `always` (the
+    /// default) allows it everywhere.
+    pub verb_after_noun_capitalised: bool,
 }
 
 /// The lexicon tag that marks a lexicalised word: written as a compound of
@@ -313,6 +318,7 @@ impl Default for Settings {
             shadowed_linking: true,
             noun_capitals: false,
             hyphenated_compounds: false,
+            verb_after_noun_capitalised: false,
             lexicalised_bonus: 0.0,
             first_member_bonus: 0.0,
         }
