@@ -400,9 +400,9 @@ struct Builder<'a> {
     memo: &'a ConditionMemo,
     /// Scratch text of the word being tested.
     key: String,
-    /// `set verb-after-noun = capitalised` and the input starts with a
-    /// small letter: a word read as a noun is not followed by one read
-    /// only as a verb.
+    /// `set verb-after-noun = capitalised`, the input starts with a small
+    /// letter and is a lexicon word with no noun reading: a word read as a
+    /// noun is not followed by one read only as a verb.
     small_verb_word: bool,
 }
 
@@ -659,13 +659,15 @@ pub fn build_with(
         walk_ids: scratch.walk_ids,
         memo,
         key: scratch.key,
-        small_verb_word: rules.settings.verb_after_noun_capitalised
-            && text
-                .original
-                .iter()
-                .find(|c| c.is_alphabetic())
-                .is_some_and(|c| c.is_lowercase()),
+        small_verb_word: false,
     };
+    b.small_verb_word = rules.settings.verb_after_noun_capitalised
+        && text
+            .original
+            .iter()
+            .find(|c| c.is_alphabetic())
+            .is_some_and(|c| c.is_lowercase())
+        && known_without_noun(lexicon, &b.text);
     b.parts.insert((0, 0, None, false), start);
     b.parts_at[0].push(PendingPart {
         node: start,
@@ -1412,9 +1414,24 @@ impl<'a> Builder<'a> {
     }
 }
 
+/// Whether `key` (normalized) is a lexicon word none of whose readings is a
+/// noun: written small, such an input is small by the orthography, not
+/// because a pipeline lowered its case (a lowered noun compound,
+/// `rinderbraten`, is no lexicon word or is one read as a noun, and is
+/// split as the capitalised word would be).
+pub fn known_without_noun(lexicon: &Lexicon, key: &str) -> bool {
+    lexicon.get(key).is_some_and(|id| {
+        !lexicon.readings(id).iter().any(|r| {
+            r.get("pos")
+                .is_some_and(|p| p.split('|').any(|v| v == "noun"))
+        })
+    })
+}
+
 /// Under `set verb-after-noun = capitalised`, in an input that starts with a
-/// small letter, a word read as a noun is not followed by a word read only
-/// as a verb. A word written small is no noun and no nominalised infinitive
+/// small letter and that the lexicon knows as a word with no noun reading
+/// (see [`known_without_noun`]), a word read as a noun is not followed by a
+/// word read only as a verb. A word written small is no noun and no nominalised infinitive
 /// (German orthography), so its last part gives it the word class of a
 /// verb, and verbs written as one word take particles, adverbs and
 /// adjectives before them, not nouns (zugelassen is not Zug + lassen,

@@ -681,19 +681,18 @@ pub fn join(
     // Candidate instances at each junction.
     let (max_l, max_r) = rules.max_ends();
     let mut candidates: Vec<Vec<usize>> = Vec::new();
-    // The joined word starts as the first part is written; written small,
-    // a noun takes no part read only as a verb after it, as `split` reads
-    // it (see `lattice::noun_before_verb`).
-    let small = rules.settings.verb_after_noun_capitalised
+    // The joined word starts as the first part is written; written small
+    // and known to the lexicon as no noun, a noun takes no part read only
+    // as a verb after it, as `split` reads it (see
+    // `lattice::noun_before_verb`).
+    let noun_then_verb = rules.settings.verb_after_noun_capitalised
         && parts
             .first()
             .and_then(|p| p.chars().find(|c| c.is_alphabetic()))
-            .is_some_and(char::is_lowercase);
+            .is_some_and(char::is_lowercase)
+        && (1..words.len())
+            .any(|i| crate::lattice::noun_before_verb(&readings[i - 1], &readings[i]));
     for i in 0..words.len().saturating_sub(1) {
-        if small && crate::lattice::noun_before_verb(&readings[i], &readings[i + 1]) {
-            candidates.push(Vec::new());
-            continue;
-        }
         let left: Vec<char> = words[i].chars().collect();
         let right: Vec<char> = words[i + 1].chars().collect();
         let mut here = Vec::new();
@@ -755,6 +754,10 @@ pub fn join(
     let found: Vec<((usize, usize), Way)> = search
         .found
         .into_iter()
+        .filter(|way| {
+            !(noun_then_verb
+                && crate::lattice::known_without_noun(lexicon, &rules.normalizer.normalize(&way.2)))
+        })
         .map(|way| {
             let unattested = way
                 .1
