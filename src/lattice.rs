@@ -400,10 +400,10 @@ struct Builder<'a> {
     memo: &'a ConditionMemo,
     /// Scratch text of the word being tested.
     key: String,
-    /// `set verb-after-noun = capitalised`, the input starts with a small
-    /// letter and is a lexicon word with no noun reading: a word read as a
-    /// noun is not followed by one read only as a verb.
-    small_verb_word: bool,
+    /// `set verb-after-noun` or `set noun-head` is `capitalised`, the input
+    /// starts with a small letter and is a lexicon word with no noun
+    /// reading (see [`small_word_refuses`]).
+    small_non_noun: bool,
 }
 
 /// Whether the condition lists of a rule-set hold for the entries of a
@@ -659,9 +659,10 @@ pub fn build_with(
         walk_ids: scratch.walk_ids,
         memo,
         key: scratch.key,
-        small_verb_word: false,
+        small_non_noun: false,
     };
-    b.small_verb_word = rules.settings.verb_after_noun_capitalised
+    b.small_non_noun = (rules.settings.verb_after_noun_capitalised
+        || rules.settings.noun_head_capitalised)
         && text
             .original
             .iter()
@@ -1121,6 +1122,13 @@ impl<'a> Builder<'a> {
                 PartSource::Entry(id),
             )
             && (whole || key.chars().count() >= self.min_part)
+            && (whole
+                || !self.small_non_noun
+                || !head_refused(
+                    &self.rules.settings,
+                    part.after_noun,
+                    self.lexicon.readings(id),
+                ))
         {
             let edge = WordEdge {
                 source: PartSource::Entry(id),
@@ -1176,7 +1184,7 @@ impl<'a> Builder<'a> {
         let source = PartSource::Entry(id);
         // What depends only on the entry and the left end is checked once.
         let mut word_ok: Option<bool> = None;
-        let after_noun = self.small_verb_word && self.read_as_noun(source);
+        let after_noun = self.noun_before(source);
         for &inst_id in group {
             let inst = &rules.instances[inst_id];
             if !self.options.scope.allows(inst.scope) {
@@ -1349,7 +1357,7 @@ impl<'a> Builder<'a> {
                 if !self.word_allowed(node, pending, after_noun, &key, source) {
                     continue;
                 }
-                let noun_before = self.small_verb_word && self.read_as_noun(source);
+                let noun_before = self.noun_before(source);
                 let edge = WordEdge {
                     source,
                     key: key.clone(),
@@ -1402,8 +1410,13 @@ impl<'a> Builder<'a> {
         }
     }
 
-    /// Whether a part is read as a noun (see [`noun_before_verb`]).
-    fn read_as_noun(&self, source: PartSource) -> bool {
+    /// Whether the part after a word from `source` has a noun before it,
+    /// as `set verb-after-noun = capitalised` reads it in this input (see
+    /// [`small_word_refuses`]).
+    fn noun_before(&self, source: PartSource) -> bool {
+        if !(self.small_non_noun && self.rules.settings.verb_after_noun_capitalised) {
+            return false;
+        }
         let mut scratch = Vec::new();
         read_as_noun(part_readings(
             self.rules,
@@ -1442,6 +1455,52 @@ pub fn known_without_noun(lexicon: &Lexicon, key: &str) -> bool {
 /// word formation.
 pub fn noun_before_verb(left: &[Tags], right: &[Tags]) -> bool {
     read_as_noun(left) && only_verb(right)
+}
+
+/// Whether an analysis with parts of these readings is refused for an input
+/// written small that the lexicon lists with no noun reading (see
+/// [`known_without_noun`]), under `set verb-after-noun = capitalised` (see
+/// [`noun_before_verb`]) and `set noun-head = capitalised`. The last part
+/// (the head) gives the word its class, and the word is no noun, so a
+/// noun reading of the head does not count: a head read only as a noun is
+/// refused under `noun-head` (vereinbart is not Verein + Bart, dramatisch
+/// not Drama + Tisch), and one read otherwise only as a verb counts as a
+/// verb after a noun (entgehen is not Ente + Gehen). A single part is the
+/// lexicon word itself and is never refused.
+pub fn small_word_refuses(settings: &crate::rules::Settings, parts: &[&[Tags]]) -> bool {
+    let Some((head, rest)) = parts.split_last() else {
+        return false;
+    };
+    if rest.is_empty() {
+        return false;
+    }
+    let verbs = settings.verb_after_noun_capitalised;
+    rest.windows(2)
+        .any(|w| verbs && noun_before_verb(w[0], w[1]))
+        || head_refused(
+            settings,
+            verbs && rest.last().is_some_and(|left| read_as_noun(left)),
+            head,
+        )
+}
+
+/// The head of a small non-noun word (see [`small_word_refuses`]), after a
+/// noun when `after_noun`: refused when its readings but the noun ones are
+/// none (under `noun-head = capitalised`) or only verbs after a noun.
+fn head_refused(settings: &crate::rules::Settings, after_noun: bool, head: &[Tags]) -> bool {
+    let is_noun = |r: &Tags| {
+        r.get("pos")
+            .is_some_and(|p| p.split('|').any(|v| v == "noun"))
+    };
+    let others: Vec<&Tags> = head.iter().filter(|r| !is_noun(r)).collect();
+    if others.is_empty() {
+        return settings.noun_head_capitalised && !head.is_empty();
+    }
+    after_noun
+        && others.iter().all(|r| {
+            r.get("pos")
+                .is_some_and(|p| p.split('|').all(|x| x == "verb"))
+        })
 }
 
 /// Some reading has `pos=noun` and none has `pos` adj, adv or other (a

@@ -682,16 +682,17 @@ pub fn join(
     let (max_l, max_r) = rules.max_ends();
     let mut candidates: Vec<Vec<usize>> = Vec::new();
     // The joined word starts as the first part is written; written small
-    // and known to the lexicon as no noun, a noun takes no part read only
-    // as a verb after it, as `split` reads it (see
-    // `lattice::noun_before_verb`).
-    let noun_then_verb = rules.settings.verb_after_noun_capitalised
+    // and known to the lexicon as no noun, it has no head read only as a
+    // noun and no noun before a verb, as `split` reads it (see
+    // `lattice::small_word_refuses`).
+    let part_readings: Vec<&[Tags]> = readings.iter().map(Vec::as_slice).collect();
+    let noun_then_verb = (rules.settings.verb_after_noun_capitalised
+        || rules.settings.noun_head_capitalised)
         && parts
             .first()
             .and_then(|p| p.chars().find(|c| c.is_alphabetic()))
             .is_some_and(char::is_lowercase)
-        && (1..words.len())
-            .any(|i| crate::lattice::noun_before_verb(&readings[i - 1], &readings[i]));
+        && crate::lattice::small_word_refuses(&rules.settings, &part_readings);
     for i in 0..words.len().saturating_sub(1) {
         let left: Vec<char> = words[i].chars().collect();
         let right: Vec<char> = words[i + 1].chars().collect();

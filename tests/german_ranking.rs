@@ -604,7 +604,7 @@ fn a_verb_follows_a_noun_only_in_a_capitalised_word() {
     assert_eq!(joined(&["fest", "bauen"]), ["festbauen"]);
     assert_eq!(joined(&["bau", "haus", "bauen"]), ["bauhausbauen"]);
     // Without the setting the small word splits too.
-    let always = compile_str("t.jr", &text.replace("capitalised", "always"));
+    let always = compile_str("t.jr", &text.replace("= capitalised", "= always"));
     let lexicon = self::lexicon(&always, tsv);
     let rec = record(&always, &lexicon, "hausbauen").record;
     assert_eq!(rec.analyses.len(), 2);
@@ -612,8 +612,9 @@ fn a_verb_follows_a_noun_only_in_a_capitalised_word() {
 
 /// With the bundled German rules and lexicon, verb forms written small are
 /// not read as a noun + verb (zugelassen, verbrennt, beigetragen,
-/// geheiratet), while the capitalised nominalisation, particle verbs and
-/// noun compounds written small still split.
+/// geheiratet) and small non-nouns have no noun head (vereinbart, wolltest,
+/// entgehen), while the capitalised nominalisation, particle verbs and noun
+/// compounds written small still split.
 #[test]
 fn small_verb_forms_are_not_read_as_noun_plus_verb() {
     let rules = german();
@@ -626,6 +627,10 @@ fn small_verb_forms_are_not_read_as_noun_plus_verb() {
         "geheiratet",
         "missbraucht",
         "versendet",
+        "vereinbart",
+        "wolltest",
+        "entgehen",
+        "dramatisch",
     ] {
         assert_eq!(best(word).len(), 1, "{word}: {:?}", best(word));
     }
@@ -634,4 +639,54 @@ fn small_verb_forms_are_not_read_as_noun_plus_verb() {
     // A noun compound whose case a pipeline lowered still splits.
     assert_eq!(best("rinderbraten"), ["Rind", "braten"]);
     assert_eq!(best("kartenspielen"), ["Karte", "spielen"]);
+}
+
+/// `set noun-head = capitalised`: a word written small that the lexicon
+/// lists with no noun reading has no last part read only as a noun (the
+/// head gives the word its class), and a head read as a noun and a verb is
+/// the verb. Capitalised, or not a lexicon word, it splits. Invented
+/// lexicon: the forms are German, the frequencies made up.
+#[test]
+fn a_small_non_noun_word_has_no_noun_head() {
+    let text = "language t\ncase fold\nset noun-head = capitalised\n\
+                set verb-after-noun = capitalised\nrule join: + -> |\n  in compound\n";
+    let rules = compile_str("t.jr", text);
+    let tsv = "Drama\t500\tpos=noun\nTisch\t400\tpos=noun\ndramatisch\t50\tpos=adj\n\
+               Ente\t300\tpos=noun\nGehen\t300\tpos=noun\ngehen\tpos=verb\n\
+               entegehen\t20\tpos=verb\nkalt\t300\tpos=adj\nEis\t300\tpos=noun\n\
+               eiskalt\t30\tpos=adj\n";
+    let lexicon = lexicon(&rules, tsv);
+    let forms = |word: &str| -> Vec<Vec<String>> {
+        let mut all: Vec<Vec<String>> = record(&rules, &lexicon, word)
+            .record
+            .analyses
+            .iter()
+            .map(|a| a.parts.iter().map(|p| p.key.clone()).collect())
+            .collect();
+        all.sort();
+        all
+    };
+    assert_eq!(forms("dramatisch"), [["dramatisch"]]);
+    assert_eq!(
+        forms("Dramatisch"),
+        [vec!["drama", "tisch"], vec!["dramatisch"]]
+    );
+    // Not a lexicon word: split.
+    assert_eq!(
+        forms("dramatischtisch"),
+        [vec!["drama", "tisch", "tisch"], vec!["dramatisch", "tisch"]]
+    );
+    // The head read as a noun and a verb counts as the verb, after a noun.
+    assert_eq!(forms("entegehen"), [["entegehen"]]);
+    // An adjective head is not touched.
+    assert_eq!(forms("eiskalt"), [vec!["eis", "kalt"], vec!["eiskalt"]]);
+    let joined = |parts: &[&str]| -> usize {
+        join(&rules, &lexicon, parts, ScopeFilter::Compound, 10)
+            .results
+            .len()
+    };
+    assert_eq!(joined(&["drama", "tisch"]), 0);
+    assert_eq!(joined(&["Drama", "tisch"]), 1);
+    assert_eq!(joined(&["ente", "gehen"]), 0);
+    assert_eq!(joined(&["eis", "kalt"]), 1);
 }

@@ -245,7 +245,7 @@ fn a_class_member_folded_to_several_letters_is_warned_about() {
 }
 
 #[test]
-fn an_unknown_verb_after_noun_value_is_an_error_with_the_choices() {
+fn unknown_values_of_the_small_word_settings_are_errors_with_the_choices() {
     let d = compile(
         "inline.jr",
         "language x\nset verb-after-noun = sometimes\n",
@@ -259,5 +259,22 @@ fn an_unknown_verb_after_noun_value_is_an_error_with_the_choices() {
         "{text}"
     );
     assert!(text.contains(" --> inline.jr:2:"), "{text}");
+    assert!(text.contains("`always`, or `capitalised`"), "{text}");
+}
+
+#[test]
+fn an_unknown_noun_head_value_is_an_error_with_the_choices() {
+    let d = compile(
+        "inline.jr",
+        "language x\nset noun-head = never\n",
+        None,
+        &CompileOptions::default(),
+    )
+    .unwrap_err();
+    let text = d.to_string();
+    assert!(
+        text.contains("unknown value `never` of `noun-head`"),
+        "{text}"
+    );
     assert!(text.contains("`always`, or `capitalised`"), "{text}");
 }

@@ -545,6 +545,7 @@ const SETTINGS: &[&str] = &[
     "noun-capitals",
     "hyphenated-compounds",
     "verb-after-noun",
+    "noun-head",
 ];
 
 fn apply_setting(cx: &mut Context, settings: &mut Settings, s: &SetDecl) {
@@ -676,6 +677,20 @@ fn apply_setting(cx: &mut Context, settings: &mut Settings, s: &SetDecl) {
                 s.value.span,
                 Some(
                     "use `always`, or `capitalised`: a part read only as a verb follows one read as a noun only in an input that starts with a capital (German: Autofahren, but not zug + lassen)"
+                        .into(),
+                ),
+            ),
+            None => {}
+        },
+        "noun-head" => match word(cx).as_deref() {
+            Some("always") => settings.noun_head_capitalised = false,
+            Some("capitalised") => settings.noun_head_capitalised = true,
+            Some(other) => cx.error(
+                "setting-value",
+                format!("unknown value `{other}` of `noun-head`"),
+                s.value.span,
+                Some(
+                    "use `always`, or `capitalised`: a last part read only as a noun is refused in a word written small that the lexicon lists as no noun (German: vereinbart is not Verein + Bart)"
                         .into(),
                 ),
             ),

@@ -282,6 +282,12 @@ pub struct Settings {
     /// verb (see [`crate::lattice::noun_before_verb`]); `always` (the
     /// default) allows it everywhere.
     pub verb_after_noun_capitalised: bool,
+    /// `noun-head = capitalised`: in an input that starts with a small
+    /// letter and that the lexicon lists with no noun reading, the last
+    /// part is not one read only as a noun (see
+    /// [`crate::lattice::small_word_refuses`]); `always` (the default)
+    /// allows it everywhere.
+    pub noun_head_capitalised: bool,
 }
 
 /// The lexicon tag that marks a lexicalised word: written as a compound of
@@ -319,6 +325,7 @@ impl Default for Settings {
             noun_capitals: false,
             hyphenated_compounds: false,
             verb_after_noun_capitalised: false,
+            noun_head_capitalised: false,
             lexicalised_bonus: 0.0,
             first_member_bonus: 0.0,
         }
