@@ -597,6 +597,23 @@ fn apply_setting(cx: &mut Context, settings: &mut Settings, s: &SetDecl) {
             None => None,
         }
     };
+    // `always` or `capitalised` (true), for the settings about words written small.
+    let always_or_capitalised = |cx: &mut Context, meaning: &str| -> Option<bool> {
+        match word(cx).as_deref() {
+            Some("always") => Some(false),
+            Some("capitalised") => Some(true),
+            Some(other) => {
+                cx.error(
+                    "setting-value",
+                    format!("unknown value `{other}` of `{name}`"),
+                    s.value.span,
+                    Some(format!("use `always`, or `capitalised`: {meaning}")),
+                );
+                None
+            }
+            None => None,
+        }
+    };
     match name {
         "ranking" => match word(cx).as_deref() {
             Some("frequency") => settings.ranking = Ranking::Frequency,
@@ -668,34 +685,22 @@ fn apply_setting(cx: &mut Context, settings: &mut Settings, s: &SetDecl) {
                 settings.hyphenated_compounds = on;
             }
         }
-        "verb-after-noun" => match word(cx).as_deref() {
-            Some("always") => settings.verb_after_noun_capitalised = false,
-            Some("capitalised") => settings.verb_after_noun_capitalised = true,
-            Some(other) => cx.error(
-                "setting-value",
-                format!("unknown value `{other}` of `verb-after-noun`"),
-                s.value.span,
-                Some(
-                    "use `always`, or `capitalised`: a part read only as a verb follows one read as a noun only in an input that starts with a capital (German: Autofahren, but not zug + lassen)"
-                        .into(),
-                ),
-            ),
-            None => {}
-        },
-        "noun-head" => match word(cx).as_deref() {
-            Some("always") => settings.noun_head_capitalised = false,
-            Some("capitalised") => settings.noun_head_capitalised = true,
-            Some(other) => cx.error(
-                "setting-value",
-                format!("unknown value `{other}` of `noun-head`"),
-                s.value.span,
-                Some(
-                    "use `always`, or `capitalised`: a last part read only as a noun is refused in a word written small that the lexicon lists as no noun (German: vereinbart is not Verein + Bart)"
-                        .into(),
-                ),
-            ),
-            None => {}
-        },
+        "verb-after-noun" => {
+            if let Some(capitalised) = always_or_capitalised(
+                cx,
+                "a part read only as a verb follows one read as a noun only in an input that starts with a capital (German: Autofahren, but not zug + lassen)",
+            ) {
+                settings.verb_after_noun_capitalised = capitalised;
+            }
+        }
+        "noun-head" => {
+            if let Some(capitalised) = always_or_capitalised(
+                cx,
+                "a last part read only as a noun is refused in a word written small that the lexicon lists as no noun (German: vereinbart is not Verein + Bart)",
+            ) {
+                settings.noun_head_capitalised = capitalised;
+            }
+        }
         "lexicon" => settings.lexicon = word(cx),
         "script" => settings.script = word(cx),
         _ => cx.error(
