@@ -1428,7 +1428,7 @@ impl<'a> Builder<'a> {
 }
 
 /// Whether `key` (normalized) is a lexicon word none of whose readings is a
-/// noun: written small, such an input is small by the orthography, not
+/// noun (but for a nominalised adjective): written small, such an input is small by the orthography, not
 /// because a pipeline lowered its case (a lowered noun compound,
 /// `rinderbraten`, is no lexicon word or is one read as a noun, and is
 /// split as the capitalised word would be).
@@ -1437,9 +1437,16 @@ pub fn known_without_noun(lexicon: &Lexicon, key: &str) -> bool {
         !lexicon.readings(id).iter().any(|r| {
             r.get("pos")
                 .is_some_and(|p| p.split('|').any(|v| v == "noun"))
+                && r.get(NOMINALISED_TAG) != Some("yes")
         })
     })
 }
+
+/// The lexicon tag of a noun reading that is an adjective used as a noun
+/// (`nominalised=yes`: Geheime, Kleine); written small, the form is the
+/// adjective, so the reading does not make it a noun for
+/// [`known_without_noun`].
+const NOMINALISED_TAG: &str = "nominalised";
 
 /// Under `set verb-after-noun = capitalised`, in an input that starts with a
 /// small letter and that the lexicon knows as a word with no noun reading

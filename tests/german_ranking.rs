@@ -690,3 +690,26 @@ fn a_small_non_noun_word_has_no_noun_head() {
     assert_eq!(joined(&["ente", "gehen"]), 0);
     assert_eq!(joined(&["eis", "kalt"]), 1);
 }
+
+/// Inflected forms of `bar` are no second part (brauchbare is brauchbar +
+/// -e), two-letter verb stems no first part (übersichtlich is no üb- +
+/// ersichtlich), and a nominalised adjective reading (Geheime) does not
+/// make a small adjective a noun (geheime is no gehen + Ime) (bundled
+/// lexicon).
+#[test]
+fn derivations_in_bar_and_uber_and_small_adjectives_stay_whole() {
+    let rules = german();
+    let lexicon = bundled(&rules);
+    let best = |word: &str| best_forms(&rules, &lexicon, word);
+    for word in [
+        "brauchbare",
+        "sichtbare",
+        "übersichtlich",
+        "überarbeitete",
+        "geheime",
+        "dramatische",
+    ] {
+        assert_eq!(best(word).len(), 1, "{word}: {:?}", best(word));
+    }
+    assert_eq!(best("Waschpulver"), ["waschen", "Pulver"]);
+}
