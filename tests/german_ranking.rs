@@ -713,3 +713,29 @@ fn derivations_in_bar_and_uber_and_small_adjectives_stay_whole() {
     }
     assert_eq!(best("Waschpulver"), ["waschen", "Pulver"]);
 }
+
+/// Words that spell a suffix with its ending (Ist, Ion, Lungen, Gen,
+/// Ente, Ler, Elle) are no second part: the derivations they would misread
+/// stay whole (Journalist, Konzeption, Handlungen, Talente, Tischler), and
+/// eigenständig is eigen + ständig, not Ei + Gen + ständig (bundled
+/// lexicon).
+#[test]
+fn suffix_homographs_are_no_second_part() {
+    let rules = german();
+    let lexicon = bundled(&rules);
+    let best = |word: &str| best_forms(&rules, &lexicon, word);
+    for word in [
+        "Journalist",
+        "Konzeption",
+        "Handlungen",
+        "Verbesserungen",
+        "Talente",
+        "Tischler",
+        "Bestseller",
+        "fangen",
+    ] {
+        assert_eq!(best(word).len(), 1, "{word}: {:?}", best(word));
+    }
+    assert_eq!(best("eigenständig"), ["Eigen", "ständig"]);
+    assert_eq!(best("Raucherlunge"), ["Raucher", "Lunge"]);
+}
