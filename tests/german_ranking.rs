@@ -739,3 +739,26 @@ fn suffix_homographs_are_no_second_part() {
     assert_eq!(best("eigenständig"), ["Eigen", "ständig"]);
     assert_eq!(best("Raucherlunge"), ["Raucher", "Lunge"]);
 }
+
+/// Nouns that keep their -e and take -n- (Ente, Rede, Suppe, Jacke, Pope)
+/// lose no -e as first parts, so the words their stems would misread stay
+/// whole, while the nouns that do drop it still do (bundled lexicon).
+#[test]
+fn nouns_that_keep_their_e_are_not_elided() {
+    let rules = german();
+    let lexicon = bundled(&rules);
+    let best = |word: &str| best_forms(&rules, &lexicon, word);
+    for word in [
+        "Redaktion",
+        "Support",
+        "Entführung",
+        "Transaktion",
+        "Jackpot",
+        "Fortbildung",
+    ] {
+        assert_eq!(best(word).len(), 1, "{word}: {:?}", best(word));
+    }
+    assert_eq!(best("Popmusik"), ["Pop", "Musik"]);
+    assert_eq!(best("Schulhof"), ["Schule", "Hof"]);
+    assert_eq!(best("Lehrbuch"), ["Lehre", "Buch"]);
+}
