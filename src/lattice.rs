@@ -404,6 +404,8 @@ struct Builder<'a> {
     /// starts with a small letter and is a lexicon word with no noun
     /// reading (see [`small_word_refuses`]).
     small_non_noun: bool,
+    /// That input is read by the lexicon only as a verb.
+    small_verb: bool,
 }
 
 /// Whether the condition lists of a rule-set hold for the entries of a
@@ -660,6 +662,7 @@ pub fn build_with(
         memo,
         key: scratch.key,
         small_non_noun: false,
+        small_verb: false,
     };
     b.small_non_noun = (rules.settings.verb_after_noun_capitalised
         || rules.settings.noun_head_capitalised)
@@ -669,6 +672,10 @@ pub fn build_with(
             .find(|c| c.is_alphabetic())
             .is_some_and(|c| c.is_lowercase())
         && known_without_noun(lexicon, &b.text);
+    b.small_verb = b.small_non_noun
+        && lexicon
+            .get(&b.text)
+            .is_some_and(|id| only_verb(lexicon.readings(id)));
     b.parts.insert((0, 0, None, false), start);
     b.parts_at[0].push(PendingPart {
         node: start,
@@ -1127,6 +1134,7 @@ impl<'a> Builder<'a> {
                 || !head_refused(
                     &self.rules.settings,
                     part.after_noun,
+                    self.small_verb,
                     self.lexicon.readings(id),
                 ))
         {
@@ -1472,9 +1480,16 @@ pub fn noun_before_verb(left: &[Tags], right: &[Tags]) -> bool {
 /// noun reading of the head does not count: a head read only as a noun is
 /// refused under `noun-head` (vereinbart is not Verein + Bart, dramatisch
 /// not Drama + Tisch), and one read otherwise only as a verb counts as a
-/// verb after a noun (entgehen is not Ente + Gehen). A single part is the
-/// lexicon word itself and is never refused.
-pub fn small_word_refuses(settings: &crate::rules::Settings, parts: &[&[Tags]]) -> bool {
+/// verb after a noun (entgehen is not Ente + Gehen). When the lexicon reads
+/// the word only as a verb (`word`: its readings), a head with no verb
+/// reading is refused under `noun-head` too (gehalten is not gehen + alten,
+/// betrat not beten + Rat). A single part is the lexicon word itself and
+/// is never refused.
+pub fn small_word_refuses(
+    settings: &crate::rules::Settings,
+    word: &[Tags],
+    parts: &[&[Tags]],
+) -> bool {
     let Some((head, rest)) = parts.split_last() else {
         return false;
     };
@@ -1487,14 +1502,22 @@ pub fn small_word_refuses(settings: &crate::rules::Settings, parts: &[&[Tags]]) 
         || head_refused(
             settings,
             verbs && rest.last().is_some_and(|left| read_as_noun(left)),
+            only_verb(word),
             head,
         )
 }
 
 /// The head of a small non-noun word (see [`small_word_refuses`]), after a
-/// noun when `after_noun`: refused when its readings but the noun ones are
-/// none (under `noun-head = capitalised`) or only verbs after a noun.
-fn head_refused(settings: &crate::rules::Settings, after_noun: bool, head: &[Tags]) -> bool {
+/// noun when `after_noun`, of a word read only as a verb when `verb_word`:
+/// refused when its readings but the noun ones are none or, in a verb, have
+/// no verb (under `noun-head = capitalised`), or are only verbs after a
+/// noun.
+fn head_refused(
+    settings: &crate::rules::Settings,
+    after_noun: bool,
+    verb_word: bool,
+    head: &[Tags],
+) -> bool {
     let is_noun = |r: &Tags| {
         r.get("pos")
             .is_some_and(|p| p.split('|').any(|v| v == "noun"))
@@ -1502,6 +1525,15 @@ fn head_refused(settings: &crate::rules::Settings, after_noun: bool, head: &[Tag
     let others: Vec<&Tags> = head.iter().filter(|r| !is_noun(r)).collect();
     if others.is_empty() {
         return settings.noun_head_capitalised && !head.is_empty();
+    }
+    if settings.noun_head_capitalised
+        && verb_word
+        && !others.iter().any(|r| {
+            r.get("pos")
+                .is_some_and(|p| p.split('|').any(|x| x == "verb"))
+        })
+    {
+        return true;
     }
     after_noun
         && others.iter().all(|r| {

@@ -686,13 +686,23 @@ pub fn join(
     // noun and no noun before a verb, as `split` reads it (see
     // `lattice::small_word_refuses`).
     let part_readings: Vec<&[Tags]> = readings.iter().map(Vec::as_slice).collect();
-    let noun_then_verb = (rules.settings.verb_after_noun_capitalised
+    let small = (rules.settings.verb_after_noun_capitalised
         || rules.settings.noun_head_capitalised)
         && parts
             .first()
             .and_then(|p| p.chars().find(|c| c.is_alphabetic()))
-            .is_some_and(char::is_lowercase)
-        && crate::lattice::small_word_refuses(&rules.settings, &part_readings);
+            .is_some_and(char::is_lowercase);
+    let refused = |surface: &str| {
+        let key = rules.normalizer.normalize(surface);
+        crate::lattice::known_without_noun(lexicon, &key)
+            && lexicon.get(&key).is_some_and(|id| {
+                crate::lattice::small_word_refuses(
+                    &rules.settings,
+                    lexicon.readings(id),
+                    &part_readings,
+                )
+            })
+    };
     for i in 0..words.len().saturating_sub(1) {
         let left: Vec<char> = words[i].chars().collect();
         let right: Vec<char> = words[i + 1].chars().collect();
@@ -755,10 +765,7 @@ pub fn join(
     let found: Vec<((usize, usize), Way)> = search
         .found
         .into_iter()
-        .filter(|way| {
-            !(noun_then_verb
-                && crate::lattice::known_without_noun(lexicon, &rules.normalizer.normalize(&way.2)))
-        })
+        .filter(|way| !(small && refused(&way.2)))
         .map(|way| {
             let unattested = way
                 .1

@@ -631,6 +631,8 @@ fn small_verb_forms_are_not_read_as_noun_plus_verb() {
         "wolltest",
         "entgehen",
         "dramatisch",
+        "gehalten",
+        "betrat",
     ] {
         assert_eq!(best(word).len(), 1, "{word}: {:?}", best(word));
     }
@@ -654,7 +656,8 @@ fn a_small_non_noun_word_has_no_noun_head() {
     let tsv = "Drama\t500\tpos=noun\nTisch\t400\tpos=noun\ndramatisch\t50\tpos=adj\n\
                Ente\t300\tpos=noun\nGehen\t300\tpos=noun\ngehen\tpos=verb\n\
                entegehen\t20\tpos=verb\nkalt\t300\tpos=adj\nEis\t300\tpos=noun\n\
-               eiskalt\t30\tpos=adj\n";
+               eiskalt\t30\tpos=adj\ngehen\t400\tpos=verb\nalten\t300\tpos=adj\n\
+               gehenalten\t50\tpos=verb\n";
     let lexicon = lexicon(&rules, tsv);
     let forms = |word: &str| -> Vec<Vec<String>> {
         let mut all: Vec<Vec<String>> = record(&rules, &lexicon, word)
@@ -678,6 +681,12 @@ fn a_small_non_noun_word_has_no_noun_head() {
     );
     // The head read as a noun and a verb counts as the verb, after a noun.
     assert_eq!(forms("entegehen"), [["entegehen"]]);
+    // A word read only as a verb has a verb as its head.
+    assert_eq!(forms("gehenalten"), [["gehenalten"]]);
+    assert_eq!(
+        forms("Gehenalten"),
+        [vec!["gehen", "alten"], vec!["gehenalten"]]
+    );
     // An adjective head is not touched.
     assert_eq!(forms("eiskalt"), [vec!["eis", "kalt"], vec!["eiskalt"]]);
     let joined = |parts: &[&str]| -> usize {
@@ -689,6 +698,8 @@ fn a_small_non_noun_word_has_no_noun_head() {
     assert_eq!(joined(&["Drama", "tisch"]), 1);
     assert_eq!(joined(&["ente", "gehen"]), 0);
     assert_eq!(joined(&["eis", "kalt"]), 1);
+    assert_eq!(joined(&["gehen", "alten"]), 0);
+    assert_eq!(joined(&["Gehen", "alten"]), 1);
 }
 
 /// Inflected forms of `bar` are no second part (brauchbare is brauchbar +
