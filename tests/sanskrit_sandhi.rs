@@ -1447,3 +1447,37 @@ fn added_common_vocabulary_is_read_through_sandhi() {
         assert_eq!(best.as_deref(), Some(want), "{surface}");
     }
 }
+
+/// Verbal compound finals (upapada: -ja, -da, -ga, -jña, -stha) are read
+/// as the last member of a compound and never alone or first: paṅkajam is
+/// paṅka + jam (mud-born, the lotus), jaladaḥ jala + daḥ (water-giver,
+/// cloud). Common practice of the classical grammar (Whitney §§1269-1270,
+/// from memory).
+#[test]
+fn verbal_compound_finals_end_compounds_only() {
+    let (rules, lexicon) = setup();
+    let analyzer = Analyzer::new(&rules, &lexicon);
+    let best = |surface: &str| -> Option<String> {
+        analyzer.split(surface, 1).analyses.first().map(|a| {
+            a.parts
+                .iter()
+                .map(|p| p.form.as_str())
+                .collect::<Vec<_>>()
+                .join("+")
+        })
+    };
+    for (surface, want) in [
+        ("paṅkajam", "paṅka+jam"),
+        ("jaladaḥ", "jala+daḥ"),
+        ("khagaḥ", "kha+gaḥ"),
+        ("sarvajñaḥ", "sarva+jñaḥ"),
+        ("gṛhasthaḥ", "gṛha+sthaḥ"),
+        ("vīṇāvādanam", "vīṇā+vādanam"),
+        ("kaṇṭhābharaṇam", "kaṇṭha+ābharaṇam"),
+    ] {
+        assert_eq!(best(surface).as_deref(), Some(want), "{surface}");
+    }
+    // Alone, or before another word, a final is no word.
+    assert_eq!(best("jaḥ"), None);
+    assert_eq!(best("daḥ"), None);
+}

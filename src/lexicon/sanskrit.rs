@@ -31,6 +31,9 @@
 //!   [`possessive_final`]), tagged `role=last`: the last member of a bahuvrīhi takes the gender of
 //!   what it describes (`bala`, n., in `mahābalaḥ`, m.). The rule-set keeps
 //!   such forms out of the first place and from after a phrase junction.
+//!   A stem line tagged `role=last` itself (the verbal compound finals
+//!   `ja`, `da`, `ga`: `paṅkaja`, `jalada`, `khaga`) is declined with that
+//!   tag on every form and gets neither a first member nor other genders.
 //! - **`bound=yes`** on every reading of a form all of whose readings are
 //!   `role=first` (`pra`, `agni`, `rāja`): such a form never ends an analysis
 //!   and never stands before a printed space (conditions in
@@ -235,7 +238,11 @@ pub fn expand(paradigms: &str, files: &[(&str, &str)]) -> Result<String, String>
             // A ready-made form (no class) is no stem: it gets no
             // compound first member (the numeral forms dvau, tribhiḥ).
             let nominal = !line.class.is_empty() && forms.iter().any(|f| f.tag("case").is_some());
-            if nominal {
+            // A stem tagged `role=last` is a compound's last member only
+            // (the verbal finals -ja, -da, -ga): no first member, and its
+            // forms in every gender are its own already.
+            let last_only = line.tags.iter().any(|(k, v)| k == "role" && v == "last");
+            if nominal && !last_only {
                 let mut tags: Vec<(String, String)> = vec![
                     ("stem".into(), line.stem.clone()),
                     ("class".into(), line.class.clone()),
@@ -252,7 +259,8 @@ pub fn expand(paradigms: &str, files: &[(&str, &str)]) -> Result<String, String>
             for f in forms {
                 add(f.form, f.tags);
             }
-            if let Some((stem, class, own)) = possessive_final(&line.stem, &line.class, &line.tags)
+            if let Some((stem, class, own)) =
+                possessive_final(&line.stem, &line.class, &line.tags).filter(|_| !last_only)
             {
                 let forms = tables
                     .expand(&stem, class, &line.tags)
