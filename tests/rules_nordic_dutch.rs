@@ -277,3 +277,22 @@ fn particle_verbs_prefixes_and_inflectional_endings_stay_whole() {
     assert_eq!(best("swedish", "lastbil"), "last+bil");
     assert_eq!(best("danish", "skoletaske"), "skole+taske");
 }
+
+/// Dutch words that spell a suffix with what comes before it (ding, ring,
+/// gen, end, cent) are no second part, and best is no first part (the be-
+/// of bestuur), so these derivations stay whole; compounds still split.
+#[test]
+fn dutch_suffix_look_alikes_stay_whole() {
+    for word in [
+        "houding",
+        "meldingen",
+        "waardering",
+        "bruggen",
+        "docent",
+        "bestuur",
+        "bestellen",
+    ] {
+        assert_eq!(best("dutch", word), word, "{word}");
+    }
+    assert_eq!(best("dutch", "hoofdstad"), "hoofd+stad");
+}
