@@ -296,3 +296,16 @@ fn dutch_suffix_look_alikes_stay_whole() {
     }
     assert_eq!(best("dutch", "hoofdstad"), "hoofd+stad");
 }
+
+/// Swedish inflected forms whose ending is also a word (liga after -lig,
+/// ren and ken after the definite -en, dar after the present -ar) and the
+/// för- of verbs stay whole; compounds still split.
+#[test]
+fn swedish_ending_look_alikes_and_for_prefix_stay_whole() {
+    for word in [
+        "billiga", "manliga", "läraren", "parken", "räddar", "försvar", "fördel",
+    ] {
+        assert_eq!(best("swedish", word), word, "{word}");
+    }
+    assert_eq!(best("swedish", "flickvän"), "flicka+vän");
+}
