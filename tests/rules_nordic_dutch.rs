@@ -309,3 +309,19 @@ fn swedish_ending_look_alikes_and_for_prefix_stay_whole() {
     }
     assert_eq!(best("swedish", "flickvän"), "flicka+vän");
 }
+
+/// Danish and Norwegian inflected forms whose ending is also a word (ske
+/// after -isk, lede after the past -ede, heden after -hed; sen and ken
+/// after the definite -en, vet and get after -et, les after the passive
+/// -es) stay whole; compounds still split.
+#[test]
+fn danish_and_norwegian_ending_look_alikes_stay_whole() {
+    for word in ["kemiske", "danske", "stillede", "sikkerheden", "tegninger"] {
+        assert_eq!(best("danish", word), word, "{word}");
+    }
+    for word in ["plassen", "parken", "brevet", "spilles", "medlemmene"] {
+        assert_eq!(best("norwegian", word), word, "{word}");
+    }
+    assert_eq!(best("danish", "sommerhus"), "sommer+hus");
+    assert_eq!(best("norwegian", "håndball"), "hånd+ball");
+}
