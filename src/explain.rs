@@ -252,6 +252,14 @@ pub enum Finding {
         /// The limit.
         max: usize,
     },
+    /// The input is written small and the lexicon lists it with no noun
+    /// reading, and the analysis has a noun before a verb or a head the word
+    /// cannot have (`set verb-after-noun` / `set noun-head`, see
+    /// [`crate::lattice::small_word_refuses`]).
+    SmallWord {
+        /// The input as one lexicon word.
+        word: String,
+    },
     /// No rule turns the two parts' ends into what the surface shows there.
     NoRule {
         /// Junction index (0 = between the first two parts).
@@ -355,6 +363,9 @@ impl Finding {
             Finding::MaxParts { parts, max } => {
                 format!("the analysis has {parts} parts, more than max-parts {max}")
             }
+            Finding::SmallWord { word } => format!(
+                "`{word}` is written small and the lexicon lists it with no noun reading, so it is no noun: it takes no part read only as a verb after a noun (set verb-after-noun = capitalised) and no head read only as a noun, nor, as a verb, a head that is no verb (set noun-head = capitalised)"
+            ),
             Finding::NoRule {
                 junction,
                 left,
@@ -874,6 +885,9 @@ fn unconditioned(rules: &RuleSet) -> RuleSet {
     }
     free.edge_start.clear();
     free.edge_end.clear();
+    // Reported on their own (`Finding::SmallWord`).
+    free.settings.verb_after_noun_capitalised = false;
+    free.settings.noun_head_capitalised = false;
     free
 }
 
@@ -928,6 +942,27 @@ fn why_not(
     }
     if let Some(reason) = lattice.truncated {
         findings.push(Finding::Truncated { reason });
+    }
+    if keys.len() > 1
+        && (rules.settings.verb_after_noun_capitalised || rules.settings.noun_head_capitalised)
+        && input
+            .chars()
+            .find(|c| c.is_alphabetic())
+            .is_some_and(char::is_lowercase)
+        && crate::lattice::known_without_noun(lexicon, &surface)
+    {
+        let readings: Vec<&[crate::lexicon::Tags]> = keys
+            .iter()
+            .map(|k| lexicon.get(k).map_or(&[][..], |id| lexicon.readings(id)))
+            .collect();
+        let word = lexicon
+            .get(&surface)
+            .map_or(&[][..], |id| lexicon.readings(id));
+        if crate::lattice::small_word_refuses(&rules.settings, word, &readings) {
+            findings.push(Finding::SmallWord {
+                word: input.trim().to_string(),
+            });
+        }
     }
     let key_refs: Vec<&str> = keys.iter().map(String::as_str).collect();
     let scope = analyzer.lattice.scope;

@@ -336,3 +336,32 @@ mod never_panics {
         }
     }
 }
+
+/// With the German rules, a verb written small that is read as noun +
+/// verb, or an adjective with a noun head, is refused by the small-word
+/// settings, and explain says so (and nothing else).
+#[test]
+fn why_not_a_small_word_is_no_noun() {
+    let rules = compile_named("german", &CompileOptions::default()).unwrap();
+    let (lexicon, _) = Lexicon::for_rules(&rules, &[], true, false).unwrap();
+    let analyzer = Analyzer::new(&rules, &lexicon);
+    for (word, expect) in [("zugelassen", "Zug+lassen"), ("dramatisch", "Drama+Tisch")] {
+        let e = run(&analyzer, word, expect);
+        assert_eq!(
+            findings(&e),
+            &[Finding::SmallWord {
+                word: word.to_string()
+            }],
+            "{word}"
+        );
+    }
+    // Capitalised, the same parts are no small word.
+    let e = run(&analyzer, "Dramatisch", "Drama+Tisch");
+    assert!(
+        !findings(&e)
+            .iter()
+            .any(|f| matches!(f, Finding::SmallWord { .. })),
+        "{:?}",
+        findings(&e)
+    );
+}
