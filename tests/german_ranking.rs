@@ -748,6 +748,9 @@ fn suffix_homographs_are_no_second_part() {
         assert_eq!(best(word).len(), 1, "{word}: {:?}", best(word));
     }
     assert_eq!(best("eigenständig"), ["Eigen", "ständig"]);
+    // No function adverb before a name either.
+    assert_eq!(best("solange").len(), 1);
+    assert_eq!(best("Solingen").len(), 1);
     assert_eq!(best("Raucherlunge"), ["Raucher", "Lunge"]);
 }
 
