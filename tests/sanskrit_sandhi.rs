@@ -1474,6 +1474,8 @@ fn verbal_compound_finals_end_compounds_only() {
         ("gṛhasthaḥ", "gṛha+sthaḥ"),
         ("vīṇāvādanam", "vīṇā+vādanam"),
         ("kaṇṭhābharaṇam", "kaṇṭha+ābharaṇam"),
+        ("saroruham", "saraḥ+ruham"),
+        ("śatrughnaḥ", "śatru+ghnaḥ"),
     ] {
         assert_eq!(best(surface).as_deref(), Some(want), "{surface}");
     }
