@@ -260,6 +260,13 @@ pub enum Finding {
         /// The input as one lexicon word.
         word: String,
     },
+    /// The input starts with a capital, so its head is a noun, and the last
+    /// part has no noun or verb reading (`set noun-head = capitalised`, see
+    /// [`crate::lattice::capitalised_head_refused`]).
+    CapitalisedHead {
+        /// The last part.
+        head: String,
+    },
     /// No rule turns the two parts' ends into what the surface shows there.
     NoRule {
         /// Junction index (0 = between the first two parts).
@@ -363,6 +370,9 @@ impl Finding {
             Finding::MaxParts { parts, max } => {
                 format!("the analysis has {parts} parts, more than max-parts {max}")
             }
+            Finding::CapitalisedHead { head } => format!(
+                "the input starts with a capital, so its last part is a noun or a nominalised infinitive, and the lexicon reads `{head}` as neither (set noun-head = capitalised)"
+            ),
             Finding::SmallWord { word } => format!(
                 "`{word}` is written small and the lexicon lists it with no noun reading, so it is no noun: it takes no part read only as a verb after a noun (set verb-after-noun = capitalised) and no head read only as a noun, nor, as a verb, a head that is no verb (set noun-head = capitalised)"
             ),
@@ -961,6 +971,20 @@ fn why_not(
         if crate::lattice::small_word_refuses(&rules.settings, word, &readings) {
             findings.push(Finding::SmallWord {
                 word: input.trim().to_string(),
+            });
+        }
+    }
+    if keys.len() > 1
+        && rules.settings.noun_head_capitalised
+        && crate::lattice::starts_capitalised(&input.chars().collect::<Vec<_>>())
+    {
+        let last = &keys[keys.len() - 1];
+        if lexicon
+            .get(last)
+            .is_some_and(|id| crate::lattice::capitalised_head_refused(lexicon.readings(id)))
+        {
+            findings.push(Finding::CapitalisedHead {
+                head: parts[parts.len() - 1].trim().to_string(),
             });
         }
     }

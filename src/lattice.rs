@@ -406,6 +406,10 @@ struct Builder<'a> {
     small_non_noun: bool,
     /// That input is read by the lexicon only as a verb.
     small_verb: bool,
+    /// `set noun-head = capitalised` and the input starts with a capital
+    /// followed by a small letter: its head is a noun (see
+    /// [`capitalised_head_refused`]).
+    capitalised: bool,
 }
 
 /// Whether the condition lists of a rule-set hold for the entries of a
@@ -663,6 +667,7 @@ pub fn build_with(
         key: scratch.key,
         small_non_noun: false,
         small_verb: false,
+        capitalised: false,
     };
     b.small_non_noun = (rules.settings.verb_after_noun_capitalised
         || rules.settings.noun_head_capitalised)
@@ -672,6 +677,7 @@ pub fn build_with(
             .find(|c| c.is_alphabetic())
             .is_some_and(|c| c.is_lowercase())
         && known_without_noun(lexicon, &b.text);
+    b.capitalised = rules.settings.noun_head_capitalised && starts_capitalised(&text.original);
     b.small_verb = b.small_non_noun
         && lexicon
             .get(&b.text)
@@ -1129,6 +1135,7 @@ impl<'a> Builder<'a> {
                 PartSource::Entry(id),
             )
             && (whole || key.chars().count() >= self.min_part)
+            && (whole || !self.capitalised || !capitalised_head_refused(self.lexicon.readings(id)))
             && (whole
                 || !self.small_non_noun
                 || !head_refused(
@@ -1539,6 +1546,28 @@ fn head_refused(
         && others.iter().all(|r| {
             r.get("pos")
                 .is_some_and(|p| p.split('|').all(|x| x == "verb"))
+        })
+}
+
+/// Whether a text starts with a capital letter followed by a small one
+/// (Einkommensteuer; not EU-WEIT, whose capitals say nothing of its class).
+pub fn starts_capitalised(text: &[char]) -> bool {
+    let mut letters = text.iter().filter(|c| c.is_alphabetic());
+    letters.next().is_some_and(|c| c.is_uppercase())
+        && letters.next().is_none_or(|c| c.is_lowercase())
+}
+
+/// Under `set noun-head = capitalised`, the head of an input written with a
+/// capital (see [`starts_capitalised`]) is a noun or a nominalisation, as
+/// German writes only those with a capital inside a sentence: a last part
+/// with neither a noun nor a verb reading (a nominalised infinitive) is
+/// refused. Einkommensteuer is Einkommen + Steuer, not Einkommen + s +
+/// teuer. A capitalised adjective at the start of a sentence is kept whole.
+pub fn capitalised_head_refused(head: &[Tags]) -> bool {
+    !head.is_empty()
+        && !head.iter().any(|r| {
+            r.get("pos")
+                .is_some_and(|p| p.split('|').any(|v| v == "noun" || v == "verb"))
         })
 }
 

@@ -692,6 +692,14 @@ pub fn join(
             .first()
             .and_then(|p| p.chars().find(|c| c.is_alphabetic()))
             .is_some_and(char::is_lowercase);
+    let capitalised_head = rules.settings.noun_head_capitalised
+        && parts
+            .first()
+            .is_some_and(|p| crate::lattice::starts_capitalised(&p.chars().collect::<Vec<_>>()))
+        && part_readings.len() > 1
+        && part_readings
+            .last()
+            .is_some_and(|head| crate::lattice::capitalised_head_refused(head));
     let refused = |surface: &str| {
         let key = rules.normalizer.normalize(surface);
         crate::lattice::known_without_noun(lexicon, &key)
@@ -765,7 +773,7 @@ pub fn join(
     let found: Vec<((usize, usize), Way)> = search
         .found
         .into_iter()
-        .filter(|way| !(small && refused(&way.2)))
+        .filter(|way| !capitalised_head && !(small && refused(&way.2)))
         .map(|way| {
             let unattested = way
                 .1

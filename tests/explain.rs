@@ -355,6 +355,14 @@ fn why_not_a_small_word_is_no_noun() {
             "{word}"
         );
     }
+    // Capitalised, the head must be a noun.
+    let e = run(&analyzer, "Einkommensteuer", "Einkommen+teuer");
+    assert_eq!(
+        findings(&e),
+        &[Finding::CapitalisedHead {
+            head: "teuer".to_string()
+        }]
+    );
     // Capitalised, the same parts are no small word.
     let e = run(&analyzer, "Dramatisch", "Drama+Tisch");
     assert!(

@@ -693,10 +693,8 @@ fn a_small_non_noun_word_has_no_noun_head() {
     assert_eq!(forms("entegehen"), [["entegehen"]]);
     // A word read only as a verb has a verb as its head.
     assert_eq!(forms("gehenalten"), [["gehenalten"]]);
-    assert_eq!(
-        forms("Gehenalten"),
-        [vec!["gehen", "alten"], vec!["gehenalten"]]
-    );
+    // Capitalised, an adjective head is refused too.
+    assert_eq!(forms("Gehenalten"), [["gehenalten"]]);
     // An adjective head is not touched.
     assert_eq!(forms("eiskalt"), [vec!["eis", "kalt"], vec!["eiskalt"]]);
     let joined = |parts: &[&str]| -> usize {
@@ -709,7 +707,11 @@ fn a_small_non_noun_word_has_no_noun_head() {
     assert_eq!(joined(&["ente", "gehen"]), 0);
     assert_eq!(joined(&["eis", "kalt"]), 1);
     assert_eq!(joined(&["gehen", "alten"]), 0);
-    assert_eq!(joined(&["Gehen", "alten"]), 1);
+    assert_eq!(joined(&["Gehen", "alten"]), 0);
+    // Capitalised, the head is a noun or a verb: no adjective head.
+    assert_eq!(forms("Eiskalt"), [["eiskalt"]]);
+    assert_eq!(forms("EISKALT"), [vec!["eis", "kalt"], vec!["eiskalt"]]);
+    assert_eq!(joined(&["Eis", "kalt"]), 0);
 }
 
 /// Inflected forms of `bar` are no second part (brauchbare is brauchbar +
@@ -762,6 +764,9 @@ fn suffix_homographs_are_no_second_part() {
         ],
     );
     assert_eq!(best("eigenständig"), ["Eigen", "ständig"]);
+    // A capitalised word has a noun head: Steuer, not s + teuer.
+    assert_eq!(best("Einkommensteuer"), ["Einkommen", "Steuer"]);
+    assert_eq!(best("Umsatzsteuer"), ["Umsatz", "Steuer"]);
     // No function adverb before a name either.
     assert_eq!(best("solange").len(), 1);
     assert_eq!(best("Solingen").len(), 1);
