@@ -676,12 +676,13 @@ pub fn build_with(
             .iter()
             .find(|c| c.is_alphabetic())
             .is_some_and(|c| c.is_lowercase())
-        && known_without_noun(lexicon, &b.text);
+        && lexicon.get(&b.text).is_some_and(|id| {
+            let whole = lexicon.readings(id);
+            b.small_verb = only_verb(whole);
+            no_noun_reading(whole)
+        });
+    b.small_verb &= b.small_non_noun;
     b.capitalised = rules.settings.noun_head_capitalised && starts_capitalised(&text.original);
-    b.small_verb = b.small_non_noun
-        && lexicon
-            .get(&b.text)
-            .is_some_and(|id| only_verb(lexicon.readings(id)));
     b.parts.insert((0, 0, None, false), start);
     b.parts_at[0].push(PendingPart {
         node: start,
@@ -1448,12 +1449,18 @@ impl<'a> Builder<'a> {
 /// `rinderbraten`, is no lexicon word or is one read as a noun, and is
 /// split as the capitalised word would be).
 pub fn known_without_noun(lexicon: &Lexicon, key: &str) -> bool {
-    lexicon.get(key).is_some_and(|id| {
-        !lexicon.readings(id).iter().any(|r| {
-            r.get("pos")
-                .is_some_and(|p| p.split('|').any(|v| v == "noun"))
-                && r.get(NOMINALISED_TAG) != Some("yes")
-        })
+    lexicon
+        .get(key)
+        .is_some_and(|id| no_noun_reading(lexicon.readings(id)))
+}
+
+/// No reading is a noun but for a nominalised adjective (see
+/// [`known_without_noun`]).
+fn no_noun_reading(readings: &[Tags]) -> bool {
+    !readings.iter().any(|r| {
+        r.get("pos")
+            .is_some_and(|p| p.split('|').any(|v| v == "noun"))
+            && r.get(NOMINALISED_TAG) != Some("yes")
     })
 }
 

@@ -51,6 +51,18 @@ fn assert_whole(rules: &RuleSet, lexicon: &Lexicon, words: &[&str]) {
     }
 }
 
+/// The parts' keys of every analysis, sorted.
+fn sorted_keys(rules: &RuleSet, lexicon: &Lexicon, word: &str) -> Vec<Vec<String>> {
+    let mut all: Vec<Vec<String>> = record(rules, lexicon, word)
+        .record
+        .analyses
+        .iter()
+        .map(|a| a.parts.iter().map(|p| p.key.clone()).collect())
+        .collect();
+    all.sort();
+    all
+}
+
 /// Lexicon forms of every analysis, best first.
 fn analyses(rules: &RuleSet, lexicon: &Lexicon, word: &str) -> Vec<Vec<String>> {
     record(rules, lexicon, word)
@@ -570,16 +582,7 @@ fn a_verb_follows_a_noun_only_in_a_capitalised_word() {
                Teil\t300\tpos=noun\nteil\tpos=other\nBau\t200\tpos=noun\n\
                hausbauen\t2\tpos=verb\nfestbauen\t2\tpos=verb\nteilbauen\t2\tpos=verb\n";
     let lexicon = lexicon(&rules, tsv);
-    let forms = |word: &str| -> Vec<Vec<String>> {
-        let mut all: Vec<Vec<String>> = record(&rules, &lexicon, word)
-            .record
-            .analyses
-            .iter()
-            .map(|a| a.parts.iter().map(|p| p.key.clone()).collect())
-            .collect();
-        all.sort();
-        all
-    };
+    let forms = |word: &str| sorted_keys(&rules, &lexicon, word);
     assert_eq!(forms("hausbauen"), [["hausbauen"]]);
     assert_eq!(
         forms("Hausbauen"),
@@ -669,16 +672,7 @@ fn a_small_non_noun_word_has_no_noun_head() {
                eiskalt\t30\tpos=adj\ngehen\t400\tpos=verb\nalten\t300\tpos=adj\n\
                gehenalten\t50\tpos=verb\n";
     let lexicon = lexicon(&rules, tsv);
-    let forms = |word: &str| -> Vec<Vec<String>> {
-        let mut all: Vec<Vec<String>> = record(&rules, &lexicon, word)
-            .record
-            .analyses
-            .iter()
-            .map(|a| a.parts.iter().map(|p| p.key.clone()).collect())
-            .collect();
-        all.sort();
-        all
-    };
+    let forms = |word: &str| sorted_keys(&rules, &lexicon, word);
     assert_eq!(forms("dramatisch"), [["dramatisch"]]);
     assert_eq!(
         forms("Dramatisch"),
