@@ -660,6 +660,51 @@ def nominalised_adjective(entry):
     return (form, freq, out, score)
 
 
+def plural_flags(dic):
+    """Noun stems of the spelling dictionary (capitalised words) with the
+    plural their affix flags give: flag N adds -n (Spinne/N: Spinnen), flag
+    P adds -en and is the plural only when the stem has no plural -e (flag
+    E): Frau/P, Bahn/P, but Stern/EP, whose -en is the dative plural.
+    Returns {folded stem: ending}, lower case, ß folded to ss."""
+    out = {}
+    with open(dic, encoding="utf-8", errors="replace") as f:
+        for line in f:
+            raw = unicodedata.normalize("NFC", line.strip())
+            stem, _, flags = raw.partition("/")
+            if not stem[:1].isupper() or not stem.isalpha():
+                continue
+            key = fold_ss(stem.lower())
+            if "N" in flags and key.endswith("e"):
+                out[key] = "n"
+            elif "P" in flags and "E" not in flags and key not in out:
+                out[key] = "en"
+    return out
+
+
+def with_dictionary_plurals(tagged, plurals):
+    """A noun's regular plural that the tagger read only as another word
+    (spinnen, tasten, waren: verbs) gets a noun reading with the noun as its
+    lemma, where the spelling dictionary gives the noun that plural (see
+    plural_flags). The linking -n-/-en- rules are `attested` and need it:
+    Spinnennetz, Tastenfeld, Warenkorb. Returns (entries, count)."""
+    index = {f: i for i, (f, _, _, _) in enumerate(tagged)}
+    added = {}
+    for form, _, readings, _ in tagged:
+        ending = plurals.get(form)
+        if ending is None or not any(
+                r["pos"] == "noun" and not r.get("lemma") and not r.get("proper")
+                and not r.get("nominalised") for r in readings):
+            continue
+        i = index.get(form + ending)
+        if i is None or i in added or any(r["pos"] == "noun" for r in tagged[i][2]):
+            continue
+        added[i] = dict(pos="noun", proper=False, lemma=form[0].upper() + form[1:],
+                        inflected=False)
+    out = [(f, q, rs + [added[i]] if i in added else rs, sc)
+           for i, (f, q, rs, sc) in enumerate(tagged)]
+    return out, len(added)
+
+
 def reading_tags(r):
     tags = [f"pos={r['pos']}"]
     if r.get("proper"):
@@ -816,6 +861,7 @@ def build(lang, outdir, tag_cache=None):
     lines = []
     second = 0
     tagged = []
+    plural_readings = 0
     cache = load_tag_cache(tag_cache, lang)
     for i, (form, freq) in enumerate(entries):
         if form in cache:
@@ -863,6 +909,9 @@ def build(lang, outdir, tag_cache=None):
               file=sys.stderr, flush=True)
         nouns = noun_lemmas(kept)
         tagged = [nominalised_adjective(with_lemma_reading(e, nouns)) for e in kept]
+        tagged, plural_readings = with_dictionary_plurals(tagged, plural_flags(SPELLING_DIC))
+        print(f"[{lang}] added a noun reading to {plural_readings} regular plurals",
+              file=sys.stderr, flush=True)
     lexicalised = load_lexicalised() if lang == "de" else set()
     if lexicalised:
         known_forms = {f for f, _, _, _ in tagged}
@@ -954,6 +1003,9 @@ def build(lang, outdir, tag_cache=None):
         header.append(f"#   - readings whose lemma has no vowel (lte: lemma lt, Mme: lemma Mm; an abbreviation "
                       f"read as a stem) dropped, with the form when it has no other reading "
                       f"({dropped.get('vowelless lemma', 0)} forms)")
+        header.append(f"#   - a noun reading (lemma: the noun) added to a noun's regular plural in -n/-en that "
+                      f"HanTa reads only as another word (spinnen, tasten, waren: verbs), where the spelling "
+                      f"dictionary's affix flags give the noun that plural ({plural_readings} forms)")
         header.append(f"#   - lexicalised=yes on every reading of the forms in lexicons/{LEXICALISED_FILE} "
                       "(a hand list, from memory) and on readings whose lemma is one of them")
     header.append(f"# entries: {len(entries)} (from {raw} in the wordfreq list)"

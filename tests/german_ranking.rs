@@ -791,3 +791,25 @@ fn nouns_that_keep_their_e_are_not_elided() {
     assert_eq!(best("Schulhof"), ["Schule", "Hof"]);
     assert_eq!(best("Lehrbuch"), ["Lehre", "Buch"]);
 }
+
+/// A noun's plural in -n that the tagger read only as a verb (spinnen,
+/// tasten, klingen) has a noun reading from the spelling dictionary's
+/// plural flags, so the attested linking -n- reads it (bundled lexicon:
+/// Spinnennetz was Spinne + nennen + Netz, Klingenstahl had no analysis).
+#[test]
+fn plurals_the_tagger_read_as_verbs_still_attest_the_linking_n() {
+    let rules = german();
+    let lexicon = bundled(&rules);
+    let best = |word: &str| best_forms(&rules, &lexicon, word);
+    assert_eq!(best("Spinnennetz"), ["Spinne", "Netz"]);
+    assert_eq!(best("Tastenkombination"), ["Taste", "Kombination"]);
+    assert_eq!(best("Klingenstahl"), ["Klinge", "Stahl"]);
+    assert_eq!(best("Klappentext"), ["Klappe", "Text"]);
+    let spinnen = lexicon.get("spinnen").expect("spinnen is listed");
+    let lemmas: Vec<Option<&str>> = lexicon
+        .readings(spinnen)
+        .iter()
+        .map(|r| r.get("lemma"))
+        .collect();
+    assert!(lemmas.contains(&Some("Spinne")), "{lemmas:?}");
+}
