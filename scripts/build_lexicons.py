@@ -665,8 +665,10 @@ def plural_flags(dic):
     plural their affix flags give: flag N adds -n (Spinne/N: Spinnen), flag
     P adds -en and is the plural only when the stem has no plural -e (flag
     E): Frau/P, Bahn/P, but Stern/EP, whose -en is the dative plural.
-    Returns {folded stem: ending}, lower case, ß folded to ss."""
-    out = {}
+    Returns ({folded stem: ending}, {folded nouns of their own}): a noun of
+    its own is a stem with the genitive -s (flag S), such as Posten/S, which
+    is no plural of Post. Lower case, ß folded to ss."""
+    plurals, own = {}, set()
     with open(dic, encoding="utf-8", errors="replace") as f:
         for line in f:
             raw = unicodedata.normalize("NFC", line.strip())
@@ -674,35 +676,57 @@ def plural_flags(dic):
             if not stem[:1].isupper() or not stem.isalpha():
                 continue
             key = fold_ss(stem.lower())
+            if "S" in flags:
+                own.add(key)
             if "N" in flags and key.endswith("e"):
-                out[key] = "n"
-            elif "P" in flags and "E" not in flags and key not in out:
-                out[key] = "en"
-    return out
+                plurals[key] = "n"
+            elif "P" in flags and "E" not in flags and key not in plurals:
+                plurals[key] = "en"
+    return plurals, own
 
 
-def with_dictionary_plurals(tagged, plurals):
+def with_dictionary_plurals(tagged, plurals, own):
     """A noun's regular plural that the tagger read only as another word
-    (spinnen, tasten, waren: verbs) gets a noun reading with the noun as its
-    lemma, where the spelling dictionary gives the noun that plural (see
-    plural_flags). The linking -n-/-en- rules are `attested` and need it:
-    Spinnennetz, Tastenfeld, Warenkorb. Returns (entries, count)."""
+    (spinnen, tasten, waren: verbs), as a noun of its own (Kanten) or as a
+    form of another noun (Ecken: Eck) is made a form of that noun, where the
+    spelling dictionary gives the noun that plural and does not list the
+    plural as a noun of its own (see plural_flags), and the plural is not
+    read as a name (Rügen, Ellen: betrügen is no verb stem + Rügen,
+    generellen no Gen + Ellen): its noun readings without a lemma get the
+    noun as their lemma, and a plural with none gets a noun reading with
+    it. The linking -n-/-en- rules are `attested` and need it (Spinnennetz,
+    Ecke + n + Schutz), and a plural read as a noun of its own shadows them
+    (Kantenlänge was Kanten + Länge). Returns (entries, count)."""
     index = {f: i for i, (f, _, _, _) in enumerate(tagged)}
-    added = {}
+    lemma_of = {}
     for form, _, readings, _ in tagged:
         ending = plurals.get(form)
         if ending is None or not any(
                 r["pos"] == "noun" and not r.get("lemma") and not r.get("proper")
                 and not r.get("nominalised") for r in readings):
             continue
-        i = index.get(form + ending)
-        if i is None or i in added or any(r["pos"] == "noun" for r in tagged[i][2]):
+        plural = form + ending
+        i = index.get(plural)
+        if i is None or i in lemma_of or plural in own or any(
+                r.get("proper") or (r["pos"] == "noun" and r.get("lemma")
+                                    and fold_ss(r["lemma"].lower()) == form)
+                for r in tagged[i][2]):
             continue
-        added[i] = dict(pos="noun", proper=False, lemma=form[0].upper() + form[1:],
-                        inflected=False)
-    out = [(f, q, rs + [added[i]] if i in added else rs, sc)
-           for i, (f, q, rs, sc) in enumerate(tagged)]
-    return out, len(added)
+        lemma_of[i] = form[0].upper() + form[1:]
+
+    def own_noun(r):
+        return r["pos"] == "noun" and not r.get("lemma") and not r.get("nominalised")
+
+    out = []
+    for i, (f, q, rs, sc) in enumerate(tagged):
+        lemma = lemma_of.get(i)
+        if lemma is not None:
+            if any(own_noun(r) for r in rs):
+                rs = [dict(r, lemma=lemma) if own_noun(r) else r for r in rs]
+            else:
+                rs = rs + [dict(pos="noun", proper=False, lemma=lemma, inflected=False)]
+        out.append((f, q, rs, sc))
+    return out, len(lemma_of)
 
 
 def reading_tags(r):
@@ -909,7 +933,7 @@ def build(lang, outdir, tag_cache=None):
               file=sys.stderr, flush=True)
         nouns = noun_lemmas(kept)
         tagged = [nominalised_adjective(with_lemma_reading(e, nouns)) for e in kept]
-        tagged, plural_readings = with_dictionary_plurals(tagged, plural_flags(SPELLING_DIC))
+        tagged, plural_readings = with_dictionary_plurals(tagged, *plural_flags(SPELLING_DIC))
         print(f"[{lang}] added a noun reading to {plural_readings} regular plurals",
               file=sys.stderr, flush=True)
     lexicalised = load_lexicalised() if lang == "de" else set()
@@ -1003,9 +1027,13 @@ def build(lang, outdir, tag_cache=None):
         header.append(f"#   - readings whose lemma has no vowel (lte: lemma lt, Mme: lemma Mm; an abbreviation "
                       f"read as a stem) dropped, with the form when it has no other reading "
                       f"({dropped.get('vowelless lemma', 0)} forms)")
-        header.append(f"#   - a noun reading (lemma: the noun) added to a noun's regular plural in -n/-en that "
-                      f"HanTa reads only as another word (spinnen, tasten, waren: verbs), where the spelling "
-                      f"dictionary's affix flags give the noun that plural ({plural_readings} forms)")
+        header.append(f"#   - a noun's regular plural in -n/-en made a form of it (lemma: the noun, on its noun "
+                      f"readings without a lemma or on an added noun reading) where HanTa reads it only as "
+                      f"another word (spinnen, waren: verbs), as a noun of its own (Kanten) "
+                      f"or as a form of another noun (Ecken: Eck), where the spelling dictionary's affix flags "
+                      f"give the noun that plural and do not make the plural a noun of its own (Posten) "
+                      f"and the plural is not read as a name (Rügen) "
+                      f"({plural_readings} forms)")
         header.append(f"#   - lexicalised=yes on every reading of the forms in lexicons/{LEXICALISED_FILE} "
                       "(a hand list, from memory) and on readings whose lemma is one of them")
     header.append(f"# entries: {len(entries)} (from {raw} in the wordfreq list)"

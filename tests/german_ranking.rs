@@ -792,12 +792,14 @@ fn nouns_that_keep_their_e_are_not_elided() {
     assert_eq!(best("Lehrbuch"), ["Lehre", "Buch"]);
 }
 
-/// A noun's plural in -n that the tagger read only as a verb (spinnen,
-/// tasten, klingen) has a noun reading from the spelling dictionary's
-/// plural flags, so the attested linking -n- reads it (bundled lexicon:
-/// Spinnennetz was Spinne + nennen + Netz, Klingenstahl had no analysis).
+/// A noun's plural in -n/-en that the tagger read only as a verb (spinnen,
+/// tasten, klingen) or as a noun of its own (Kanten, Zutaten) is a form of
+/// the noun, from the spelling dictionary's plural flags, so the attested
+/// linking -n-/-en- reads it (bundled lexicon: Spinnennetz was Spinne +
+/// nennen + Netz, Klingenstahl had no analysis, Kantenlänge was Kanten +
+/// Länge).
 #[test]
-fn plurals_the_tagger_read_as_verbs_still_attest_the_linking_n() {
+fn regular_plurals_attest_the_linking_n() {
     let rules = german();
     let lexicon = bundled(&rules);
     let best = |word: &str| best_forms(&rules, &lexicon, word);
@@ -805,6 +807,10 @@ fn plurals_the_tagger_read_as_verbs_still_attest_the_linking_n() {
     assert_eq!(best("Tastenkombination"), ["Taste", "Kombination"]);
     assert_eq!(best("Klingenstahl"), ["Klinge", "Stahl"]);
     assert_eq!(best("Klappentext"), ["Klappe", "Text"]);
+    assert_eq!(best("Kantenlänge"), ["Kante", "Länge"]);
+    assert_eq!(best("Zutatenliste"), ["Zutat", "Liste"]);
+    // A plural listed as a noun of its own is not made a form of another.
+    assert_eq!(best("Postenkette"), ["Posten", "Kette"]);
     let spinnen = lexicon.get("spinnen").expect("spinnen is listed");
     let lemmas: Vec<Option<&str>> = lexicon
         .readings(spinnen)
