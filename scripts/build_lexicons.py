@@ -729,6 +729,117 @@ def with_dictionary_plurals(tagged, plurals, own):
     return out, len(lemma_of)
 
 
+COMBINING_ENDINGS = ["", "s", "es", "n", "en", "e", "er", "ns", "ens"]
+UMLAUT_BACK = {"ä": "a", "ö": "o", "ü": "u"}
+
+
+def combining_forms(dic):
+    """The forms the spelling dictionary gives each noun as the first member
+    of a compound: {noun as the dictionary writes it: {forms, lower case}}.
+
+    igerman98 marks every word that may begin a compound as it is (affix
+    flags i/j: Bahn, Kraft) and lists the forms that only begin compounds
+    with the flag h as well (Arbeits/hij, Schul/hij, Kinder/hij). Such a
+    form belongs to the noun it is made from by a linking ending
+    (COMBINING_ENDINGS: Arbeit + s, Sonne + n), by an umlaut with -e or -er
+    (Hände, Häuser) or by dropping a final -e (Schul, Geschicht + s). The
+    dictionary's own compounds add the first members they are written
+    with, where the word splits into a first member and a word of the
+    dictionary in one way only (Arbeitgeber: Arbeit; Tagebuch: Tage;
+    Bahnsteig splits two ways, Bahn + steig and Bahns + teig, and adds
+    nothing); a first member that is a word of its own belongs to that
+    word only (Arbeiter in Arbeiterpartei is not Arbeit + er)."""
+    stems, words, entries = {}, set(), []
+    with open(dic, encoding="utf-8", errors="replace") as f:
+        for line in f:
+            raw = unicodedata.normalize("NFC", line.strip())
+            word, _, flags = raw.partition("/")
+            if not word.isalpha():
+                continue
+            entries.append((word, flags))
+            if word[:1].isupper():
+                stems.setdefault(word, set()).update(flags)
+            if "h" not in flags:
+                words.add(word.lower())
+    nouns = {w for w, flags in stems.items() if "h" not in flags}
+
+    def de_umlaut(stem):
+        for i in range(len(stem) - 1, -1, -1):
+            if stem[i] in UMLAUT_BACK:
+                return stem[:i] + UMLAUT_BACK[stem[i]] + stem[i + 1:]
+        return None
+
+    def bases(form):
+        out = set()
+        for ending in COMBINING_ENDINGS:
+            if not form.endswith(ending):
+                continue
+            stem = form[:len(form) - len(ending)]
+            if len(stem) < 2:
+                continue
+            candidates = {stem}
+            back = de_umlaut(stem)
+            if back and ending in ("e", "er"):
+                candidates.add(back)
+            if ending in ("", "s"):
+                candidates.add(stem + "e")
+            out |= {c for c in candidates if c in nouns}
+        return out
+
+    forms = {}
+    for word, flags in stems.items():
+        if not {"i", "j"} & flags:
+            continue
+        if "h" not in flags:
+            forms.setdefault(word, set()).add(word.lower())
+            continue
+        for noun in bases(word):
+            if noun != word:
+                forms.setdefault(noun, set()).add(word.lower())
+    for word, flags in entries:
+        if "h" in flags:
+            continue
+        low = word.lower()
+        found = set()
+        for i in range(2, len(low) - 2):
+            if len(low) - i < 3 or low[i:] not in words:
+                continue
+            first = word[0].upper() + low[1:i]
+            if first in nouns:
+                found.add((first, first.lower()))
+            elif first.lower() not in words:
+                found |= {(noun, first.lower()) for noun in bases(first)}
+        if len({f for _, f in found}) == 1:
+            for noun, form in found:
+                forms.setdefault(noun, set()).add(form)
+    return forms
+
+
+def with_combining_forms(tagged, forms):
+    """The noun reading (no lemma, no name, not nominalised) of each form
+    that combining_forms knows gets `combining=FORM|FORM…` (lower case, ß
+    as the dictionary writes it; the engine normalizes both sides). The
+    rule-set's `unlisted-combining-cost` ranks a first member written in
+    another form lower. Returns (entries, count)."""
+    folded = {}
+    for noun, fs in forms.items():
+        folded.setdefault(fold_ss(noun.lower()), set()).update(fs)
+    out, count = [], 0
+    for f, q, rs, sc in tagged:
+        listed = folded.get(f)
+        if listed:
+            new = []
+            for r in rs:
+                if (r["pos"] == "noun" and not r.get("lemma") and not r.get("proper")
+                        and not r.get("nominalised")):
+                    r = dict(r, combining="|".join(sorted(listed)))
+                    count += 1
+                new.append(r)
+            rs = new
+        out.append((f, q, rs, sc))
+    return out, count
+
+
 def reading_tags(r):
     tags = [f"pos={r['pos']}"]
     if r.get("proper"):
@@ -741,6 +852,8 @@ def reading_tags(r):
         tags.append("nominalised=yes")
     if r.get("lexicalised"):
         tags.append("lexicalised=yes")
+    if r.get("combining"):
+        tags.append(f"combining={r['combining']}")
     return tags
 
 
@@ -886,6 +999,7 @@ def build(lang, outdir, tag_cache=None):
     second = 0
     tagged = []
     plural_readings = 0
+    combining_readings = 0
     cache = load_tag_cache(tag_cache, lang)
     for i, (form, freq) in enumerate(entries):
         if form in cache:
@@ -935,6 +1049,9 @@ def build(lang, outdir, tag_cache=None):
         tagged = [nominalised_adjective(with_lemma_reading(e, nouns)) for e in kept]
         tagged, plural_readings = with_dictionary_plurals(tagged, *plural_flags(SPELLING_DIC))
         print(f"[{lang}] added a noun reading to {plural_readings} regular plurals",
+              file=sys.stderr, flush=True)
+        tagged, combining_readings = with_combining_forms(tagged, combining_forms(SPELLING_DIC))
+        print(f"[{lang}] combining forms on {combining_readings} noun readings",
               file=sys.stderr, flush=True)
     lexicalised = load_lexicalised() if lang == "de" else set()
     if lexicalised:
@@ -1034,6 +1151,10 @@ def build(lang, outdir, tag_cache=None):
                       f"give the noun that plural and do not make the plural a noun of its own (Posten) "
                       f"and the plural is not read as a name (Rügen) "
                       f"({plural_readings} forms)")
+        header.append(f"#   - combining=FORM|FORM on noun readings: the forms the spelling dictionary gives the noun "
+                      f"as a compound's first member (its flags i/j, its forms flagged h, the first members of its "
+                      f"own compounds that split one way only: Kind: kind|kinder|kindes|kinds) "
+                      f"({combining_readings} readings)")
         header.append(f"#   - lexicalised=yes on every reading of the forms in lexicons/{LEXICALISED_FILE} "
                       "(a hand list, from memory) and on readings whose lemma is one of them")
     header.append(f"# entries: {len(entries)} (from {raw} in the wordfreq list)"

@@ -171,6 +171,11 @@ pub struct PartTerm {
     /// in its stem form (else 0, not written).
     #[serde(skip_serializing_if = "is_zero")]
     pub first_member_bonus: f64,
+    /// `−unlisted-combining-cost` when the part is a first member written
+    /// in a form its entry's `combining` tag does not list (else 0, not
+    /// written).
+    #[serde(skip_serializing_if = "is_zero")]
+    pub combining_cost: f64,
 }
 
 fn is_zero(x: &f64) -> bool {
@@ -624,7 +629,18 @@ pub fn breakdown(
                 Some(id) if i + 1 < count => search::first_member_bonus(lexicon, id, options),
                 _ => 0.0,
             };
-            total += term + cost + bonus + first;
+            let combining = match (id, instances.get(i)) {
+                (Some(id), Some(&instance)) if i == 0 => -search::combining_cost(
+                    rules,
+                    lexicon,
+                    id,
+                    &rules.normalizer.normalize(form),
+                    instance,
+                    options,
+                ),
+                _ => 0.0,
+            };
+            total += term + cost + bonus + first + combining;
             PartTerm {
                 form: form.clone(),
                 frequency: *f,
@@ -632,6 +648,7 @@ pub fn breakdown(
                 part_cost: cost,
                 lexicalised_bonus: bonus,
                 first_member_bonus: first,
+                combining_cost: combining,
             }
         })
         .collect();
@@ -1499,7 +1516,7 @@ fn breakdown_text(b: &Breakdown, out: &mut String) {
     for p in &b.parts {
         let _ = writeln!(
             out,
-            "       part {:<12} frequency {:<8} {:>9}  part-cost {:>5}{}{}",
+            "       part {:<12} frequency {:<8} {:>9}  part-cost {:>5}{}{}{}",
             p.form,
             p.frequency,
             signed(p.frequency_term),
@@ -1513,6 +1530,11 @@ fn breakdown_text(b: &Breakdown, out: &mut String) {
                 String::new()
             } else {
                 format!("  first-member {}", signed(p.first_member_bonus))
+            },
+            if p.combining_cost == 0.0 {
+                String::new()
+            } else {
+                format!("  unlisted-combining {}", signed(p.combining_cost))
             }
         );
     }

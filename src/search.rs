@@ -20,9 +20,9 @@
 //! **probability** model scores `Σ ln p_i − Σ cost(r_j) − n · part-cost`, with
 //! `p_i` the add-one smoothed relative frequency of the part.
 
-use crate::lattice::{Edge, Lattice, PartSource, Truncation};
+use crate::lattice::{Edge, Lattice, Node, PartSource, Truncation};
 use crate::lexicon::Lexicon;
-use crate::rules::{Ranking, RuleSet, FIRST_MEMBER_TAGS, LEXICALISED_TAG};
+use crate::rules::{Ranking, RuleSet, COMBINING_TAG, FIRST_MEMBER_TAGS, LEXICALISED_TAG};
 use num_bigint::BigUint;
 use num_traits::{One, Zero};
 use petgraph::graph::{EdgeIndex, NodeIndex};
@@ -49,6 +49,9 @@ pub struct SearchOptions {
     /// Added for every part that can be a compound's first member in its
     /// stem form (`first-member-bonus`).
     pub first_member_bonus: f64,
+    /// Subtracted when the first of several parts is written in a form its
+    /// entry's `combining` tag does not list (`unlisted-combining-cost`).
+    pub unlisted_combining_cost: f64,
 }
 
 impl SearchOptions {
@@ -62,6 +65,7 @@ impl SearchOptions {
             max_pops: 2_000_000,
             lexicalised_bonus: rules.settings.lexicalised_bonus,
             first_member_bonus: rules.settings.first_member_bonus,
+            unlisted_combining_cost: rules.settings.unlisted_combining_cost,
         }
     }
 }
@@ -298,6 +302,7 @@ impl Weights<'_> {
                         e.weight(),
                         e.target() == lattice.end,
                         e.source() == lattice.start,
+                        next_instance(lattice, e.target()),
                     )
                 } else {
                     EdgeTerms {
@@ -313,8 +318,11 @@ impl Weights<'_> {
     /// The terms of an edge, computed once per lattice; `last` says the
     /// edge ends the input (a last part earns no `first-member-bonus`),
     /// `first` that it starts it (with `last`: the whole input, which earns
-    /// the bonus of a name, see [`whole_word_bonus`]).
-    fn terms(&self, edge: &Edge, last: bool, first: bool) -> EdgeTerms {
+    /// the bonus of a name, see [`whole_word_bonus`]), and `next` is the
+    /// junction instance that follows it (for [`combining_cost`], which only
+    /// the first part pays: a linking element after a later part follows
+    /// the compound up to it, *Schifffahrt* + `s`, not that part alone).
+    fn terms(&self, edge: &Edge, last: bool, first: bool, next: Option<usize>) -> EdgeTerms {
         match edge {
             Edge::Word(w) => {
                 let (term, divided) = match self.options.ranking {
@@ -327,7 +335,8 @@ impl Weights<'_> {
                 let bonus = match w.source {
                     PartSource::Entry(id)
                         if self.options.lexicalised_bonus != 0.0
-                            || self.options.first_member_bonus != 0.0 =>
+                            || self.options.first_member_bonus != 0.0
+                            || self.options.unlisted_combining_cost != 0.0 =>
                     {
                         Some(
                             lexicalised_bonus(self.lexicon, id, self.options)
@@ -340,7 +349,17 @@ impl Weights<'_> {
                                     0.0
                                 } else {
                                     first_member_bonus(self.lexicon, id, self.options)
-                                },
+                                }
+                                - next.filter(|_| first).map_or(0.0, |instance| {
+                                    combining_cost(
+                                        self.rules,
+                                        self.lexicon,
+                                        id,
+                                        &w.key,
+                                        instance,
+                                        self.options,
+                                    )
+                                }),
                         )
                     }
                     _ => None,
@@ -391,6 +410,91 @@ pub fn lexicalised_bonus(lexicon: &Lexicon, id: usize, options: &SearchOptions) 
         options.lexicalised_bonus,
         &[(LEXICALISED_TAG, "yes")],
     )
+}
+
+/// The instance of the joint `node` (the junction after a word ending
+/// there), if it is one.
+fn next_instance(lattice: &Lattice, node: NodeIndex) -> Option<usize> {
+    match lattice.graph.node_weight(node) {
+        Some(Node::Joint { instance, .. }) => Some(*instance),
+        _ => None,
+    }
+}
+
+/// The `unlisted-combining-cost` of entry `id` (normalized form `key`) as
+/// the first member before junction instance `instance`: 0 when no reading
+/// of the entry has the [`COMBINING_TAG`], or when one lists the member as
+/// the junction writes it (`key` with the instance's left end replaced by
+/// the letters it prints before its boundary: *Kind* before the linking
+/// `-er-` is written `kinder`; of three equal consonants that the older
+/// spelling writes as two, the member keeps its own two), or when that form is a lexicon form of the
+/// word (a reading's `lemma` is `key`: the plural *Hände* of *Hand*); else
+/// the cost. The tag's forms are
+/// normalized as the rule-set normalizes, so a form written with a capital
+/// matches.
+pub fn combining_cost(
+    rules: &RuleSet,
+    lexicon: &Lexicon,
+    id: usize,
+    key: &str,
+    instance: usize,
+    options: &SearchOptions,
+) -> f64 {
+    let cost = options.unlisted_combining_cost;
+    if cost == 0.0 {
+        return 0.0;
+    }
+    let mut listed = lexicon
+        .readings(id)
+        .iter()
+        .filter_map(|r| r.get(COMBINING_TAG))
+        .peekable();
+    if listed.peek().is_none() {
+        return 0.0;
+    }
+    let Some(inst) = rules.instances.get(instance) else {
+        return 0.0;
+    };
+    let Some(stem) = key.strip_suffix(inst.left.as_str()) else {
+        return 0.0;
+    };
+    let mut written = String::with_capacity(stem.len() + inst.surface_left.len() + 4);
+    written.push_str(stem);
+    written.push_str(&inst.surface_left);
+    // Of three equal consonants the older spelling writes two (Bett +
+    // Tuch: Bettuch): the member is still written with its own two.
+    let dropped = inst
+        .left
+        .strip_prefix(inst.surface_left.as_str())
+        .and_then(|d| d.chars().next());
+    if let (Some(d), Some(r)) = (dropped, inst.right.chars().next()) {
+        if d == r && inst.surface_left.ends_with(r) {
+            written.push(r);
+        }
+    }
+    let found = listed.any(|forms| {
+        forms
+            .split('|')
+            .any(|f| f == written || rules.normalizer.normalize(f) == written)
+    });
+    // A form of the word itself (its plural, Kinder or Hände) is listed
+    // by the lexicon.
+    let inflected = || {
+        lexicon.get(&written).is_some_and(|w| {
+            lexicon.readings(w).iter().any(|r| {
+                r.get(crate::proof::LEMMA_TAG).is_some_and(|lemmas| {
+                    lemmas
+                        .split('|')
+                        .any(|l| rules.normalizer.normalize(l) == key)
+                })
+            })
+        })
+    };
+    if found || inflected() {
+        0.0
+    } else {
+        cost
+    }
 }
 
 /// The `first-member-bonus` an entry earns as a part that is not the last:
@@ -1038,8 +1142,9 @@ fn unique_path(
         let ends = lattice.graph.edge_endpoints(e);
         let last = ends.is_some_and(|(_, target)| target == lattice.end);
         let first = ends.is_some_and(|(source, _)| source == lattice.start);
+        let next = ends.and_then(|(_, target)| next_instance(lattice, target));
         score += weights
-            .terms(&lattice.graph[e], last, first)
+            .terms(&lattice.graph[e], last, first, next)
             .weight(divisor);
     }
     Some(Some(ScoredPath {

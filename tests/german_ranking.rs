@@ -819,3 +819,92 @@ fn regular_plurals_attest_the_linking_n() {
         .collect();
     assert!(lemmas.contains(&Some("Spinne")), "{lemmas:?}");
 }
+
+/// An invented rule-set: zero linking and a linking `s`, both free, ranked
+/// by frequency as German is, with `unlisted-combining-cost` as given.
+fn combining_rules(cost: Option<f64>) -> RuleSet {
+    let setting = cost.map_or(String::new(), |c| {
+        format!("set unlisted-combining-cost = {c}\n")
+    });
+    compile_str(
+        "combining.jr",
+        &format!(
+            "language x\ncase fold\nset ranking = frequency\n{setting}rule join: + -> |\n  cost 0\nrule link-s: + -> s |\n  cost 0\n"
+        ),
+    )
+}
+
+/// Invented frequencies: `teig` is far more frequent than `steig`, so
+/// without the setting `bahn + s + teig` wins; `bahn` lists only itself as
+/// a first member, `zug` lists nothing, `rind` lists its plural form.
+const COMBINING: &str = "\
+bahn\t100\tpos=noun;combining=bahn
+zug\t100\tpos=noun
+steig\t10\tpos=noun
+teig\t1000\tpos=noun
+rind\t100\tpos=noun;combining=rind
+rinder\t50\tpos=noun;lemma=rind
+braten\t100\tpos=noun
+raten\t1000\tpos=noun
+";
+
+#[test]
+fn a_first_member_in_a_form_its_entry_does_not_list_costs_more() {
+    let plain = combining_rules(None);
+    let lex = lexicon(&plain, COMBINING);
+    assert_eq!(analyses(&plain, &lex, "bahnsteig")[0], ["bahn", "teig"]);
+    let costed = combining_rules(Some(3.0));
+    let lex = lexicon(&costed, COMBINING);
+    let all = analyses(&costed, &lex, "bahnsteig");
+    assert_eq!(all[0], ["bahn", "steig"]);
+    // The unlisted reading is still found, ranked lower.
+    assert!(all.contains(&vec!["bahn".to_string(), "teig".to_string()]));
+    // An entry without the tag pays nothing.
+    assert_eq!(analyses(&costed, &lex, "zugsteig")[0], ["zug", "teig"]);
+    // Only the first part pays: after a later part, the linking element
+    // belongs to the compound up to it.
+    assert_eq!(
+        analyses(&costed, &lex, "zugbahnsteig")[0],
+        ["zug", "bahn", "teig"]
+    );
+    // A form of the word itself (here only a plural with its lemma) is
+    // listed by the lexicon: no cost for a member written `rinder`.
+    let with_er = compile_str(
+        "er.jr",
+        "language x\ncase fold\nset ranking = frequency\nset unlisted-combining-cost = 3\nrule join: + -> |\n  cost 0\nrule link-er: + -> e r |\n  cost 0\n",
+    );
+    let lex = lexicon(&with_er, COMBINING);
+    assert_eq!(analyses(&with_er, &lex, "rinderbraten")[0][1], "braten");
+    assert_eq!(analyses(&with_er, &lex, "rinderbraten")[0][0], "rind");
+}
+
+#[test]
+fn the_setting_is_a_number() {
+    let rules = combining_rules(Some(1.5));
+    assert_eq!(rules.settings.unlisted_combining_cost, 1.5);
+    let err = compile(
+        "x.jr",
+        "language x\nset unlisted-combining-cost = high\n",
+        None,
+        &CompileOptions::default(),
+    )
+    .expect_err("a word is no cost");
+    assert!(format!("{err:?}").contains("setting-value"), "{err:?}");
+}
+
+/// The bundled lexicon lists the spelling dictionary's combining forms, so
+/// a first member read with a linking `s` it does not take ranks below the
+/// one read as it is (Bahn takes no `s`; Schrift + s + Teller goes too).
+#[test]
+fn bundled_combining_forms_rank_unlisted_linking_lower() {
+    let rules = german();
+    let lexicon = bundled(&rules);
+    let best = |word: &str| best_forms(&rules, &lexicon, word);
+    assert_eq!(best("Bahnsteig"), ["Bahn", "Steig"]);
+    assert_eq!(best("Zeitspanne"), ["Zeit", "Spanne"]);
+    assert_ne!(best("Schriftsteller"), ["Schrift", "Teller"]);
+    // Listed forms are unaffected.
+    assert_eq!(best("Arbeitsamt"), ["Arbeit", "Amt"]);
+    assert_eq!(best("Kinderwagen"), ["Kind", "Wagen"]);
+    assert_eq!(best("Schulbuch"), ["Schule", "Buch"]);
+}

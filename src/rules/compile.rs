@@ -542,6 +542,7 @@ const SETTINGS: &[&str] = &[
     "shadowed-linking",
     "lexicalised-bonus",
     "first-member-bonus",
+    "unlisted-combining-cost",
     "noun-capitals",
     "hyphenated-compounds",
     "verb-after-noun",
@@ -654,6 +655,11 @@ fn apply_setting(cx: &mut Context, settings: &mut Settings, s: &SetDecl) {
         "first-member-bonus" => {
             if let Some(n) = number(cx, false) {
                 settings.first_member_bonus = n;
+            }
+        }
+        "unlisted-combining-cost" => {
+            if let Some(n) = number(cx, false) {
+                settings.unlisted_combining_cost = n;
             }
         }
         "pattern-frequency" => {

@@ -24,7 +24,7 @@ use super::RuleSet;
 /// Magic bytes at the start of a compiled rule-set.
 pub const MAGIC: &[u8; 8] = b"JUNCRUL\0";
 /// Version of the file layout.
-pub const FORMAT_VERSION: u32 = 2;
+pub const FORMAT_VERSION: u32 = 3;
 /// The juncture version that writes and reads compiled rule-sets.
 const WRITER: &str = env!("CARGO_PKG_VERSION");
 

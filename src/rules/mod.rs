@@ -269,6 +269,12 @@ pub struct Settings {
     /// nothing else tells two readings apart, the one that reads the word
     /// as a compound comes first (Sanskrit *devendraḥ*: deva + indraḥ).
     pub first_member_bonus: f64,
+    /// `unlisted-combining-cost`: subtracted from the score of an analysis
+    /// whose first part (of two or more) is written in a form that its lexicon
+    /// entry's [`COMBINING_TAG`] readings do not list (`Bahn` + `s` in
+    /// *Bahnsteig*, where the tag lists only `bahn`); an entry without the
+    /// tag costs nothing (see [`crate::search::combining_cost`]).
+    pub unlisted_combining_cost: f64,
     /// `noun-capitals`: the orthography writes nouns with a capital first
     /// letter (German), so a part is shown in its noun or its other spelling
     /// as its readings say (see [`crate::proof::shown_form`]).
@@ -289,6 +295,11 @@ pub struct Settings {
     /// allows it everywhere.
     pub noun_head_capitalised: bool,
 }
+
+/// The lexicon tag that lists the forms a word takes as the first member
+/// of a compound, as written before the next member (`combining=kinder|kindes`
+/// on *Kind*; see [`Settings::unlisted_combining_cost`]).
+pub const COMBINING_TAG: &str = "combining";
 
 /// The lexicon tag that marks a lexicalised word: written as a compound of
 /// other words, but not one in meaning (`lexicalised=yes`).
@@ -328,6 +339,7 @@ impl Default for Settings {
             noun_head_capitalised: false,
             lexicalised_bonus: 0.0,
             first_member_bonus: 0.0,
+            unlisted_combining_cost: 0.0,
         }
     }
 }
