@@ -318,6 +318,8 @@ fn swedish_ending_look_alikes_and_for_prefix_stay_whole() {
         assert_eq!(best("swedish", word), word, "{word}");
     }
     assert_eq!(best("swedish", "flickvän"), "flicka+vän");
+    // The superlative ending -ste is no last part.
+    assert_ne!(best("swedish", "tandborste"), "tand+bor+ste");
 }
 
 /// Danish and Norwegian inflected forms whose ending is also a word (ske
