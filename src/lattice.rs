@@ -1567,14 +1567,19 @@ pub fn starts_capitalised(text: &[char]) -> bool {
 /// Under `set noun-head = capitalised`, the head of an input written with a
 /// capital (see [`starts_capitalised`]) is a noun or a nominalisation, as
 /// German writes only those with a capital inside a sentence: a last part
-/// with neither a noun nor a verb reading (a nominalised infinitive) is
-/// refused. Einkommensteuer is Einkommen + Steuer, not Einkommen + s +
-/// teuer. A capitalised adjective at the start of a sentence is kept whole.
+/// with neither a noun reading nor a verb reading in its own citation form
+/// (no `lemma` tag: the infinitive, as nominalised) is refused.
+/// Einkommensteuer is Einkommen + Steuer, not Einkommen + s + teuer, and
+/// Nachteil is not Nacht + eil (the imperative of eilen). A capitalised
+/// adjective at the start of a sentence is kept whole.
 pub fn capitalised_head_refused(head: &[Tags]) -> bool {
     !head.is_empty()
         && !head.iter().any(|r| {
-            r.get("pos")
-                .is_some_and(|p| p.split('|').any(|v| v == "noun" || v == "verb"))
+            r.get("pos").is_some_and(|p| {
+                p.split('|').any(|v| {
+                    v == "noun" || (v == "verb" && !r.contains_key(crate::proof::LEMMA_TAG))
+                })
+            })
         })
 }
 

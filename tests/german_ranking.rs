@@ -908,3 +908,21 @@ fn bundled_combining_forms_rank_unlisted_linking_lower() {
     assert_eq!(best("Kinderwagen"), ["Kind", "Wagen"]);
     assert_eq!(best("Schulbuch"), ["Schule", "Buch"]);
 }
+
+/// A capitalised word's head is a noun or a verb in its citation form (the
+/// infinitive, nominalised: Autofahren), not a verb form with a lemma of its
+/// own (the imperative eil, the stem scher): Nachteil is not Nacht + eil,
+/// Herrscher not Herr + scher (bundled lexicon).
+#[test]
+fn a_capitalised_word_has_no_finite_verb_head() {
+    let rules = german();
+    let lexicon = bundled(&rules);
+    let best = |word: &str| best_forms(&rules, &lexicon, word);
+    assert_whole(
+        &rules,
+        &lexicon,
+        &["Nachteil", "Herrscher", "Niederschlag", "Sandwich"],
+    );
+    assert_eq!(best("Autofahren"), ["Auto", "Fahren"]);
+    assert_eq!(best("Einkommensteuer"), ["Einkommen", "Steuer"]);
+}
