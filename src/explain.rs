@@ -257,9 +257,9 @@ pub enum Finding {
         /// The limit.
         max: usize,
     },
-    /// The input is written small and the lexicon lists it with no noun
-    /// reading, and the analysis has a noun before a verb or a head the word
-    /// cannot have (`set verb-after-noun` / `set noun-head`, see
+    /// The lexicon lists the input with no noun reading, and the analysis
+    /// has a head the word cannot have (`set noun-head`) or, the input
+    /// written small, a noun before a verb (`set verb-after-noun`; see
     /// [`crate::lattice::small_word_refuses`]).
     SmallWord {
         /// The input as one lexicon word.
@@ -379,7 +379,7 @@ impl Finding {
                 "the input starts with a capital, so its last part is a noun or a nominalised infinitive, and the lexicon reads `{head}` as neither (set noun-head = capitalised)"
             ),
             Finding::SmallWord { word } => format!(
-                "`{word}` is written small and the lexicon lists it with no noun reading, so it is no noun: it takes no part read only as a verb after a noun (set verb-after-noun = capitalised) and no head read only as a noun, nor, as a verb, a head that is no verb (set noun-head = capitalised)"
+                "the lexicon lists `{word}` with no noun reading, so it is no noun: it takes no head read only as a noun, nor, as a verb, a head that is no verb (set noun-head = capitalised), and, written small, no part read only as a verb after a noun (set verb-after-noun = capitalised)"
             ),
             Finding::NoRule {
                 junction,
@@ -970,12 +970,13 @@ fn why_not(
     if let Some(reason) = lattice.truncated {
         findings.push(Finding::Truncated { reason });
     }
+    let small = input
+        .chars()
+        .find(|c| c.is_alphabetic())
+        .is_some_and(char::is_lowercase);
     if keys.len() > 1
-        && (rules.settings.verb_after_noun_capitalised || rules.settings.noun_head_capitalised)
-        && input
-            .chars()
-            .find(|c| c.is_alphabetic())
-            .is_some_and(char::is_lowercase)
+        && ((rules.settings.verb_after_noun_capitalised && small)
+            || rules.settings.noun_head_capitalised)
         && crate::lattice::known_without_noun(lexicon, &surface)
     {
         let readings: Vec<&[crate::lexicon::Tags]> = keys
@@ -985,7 +986,7 @@ fn why_not(
         let word = lexicon
             .get(&surface)
             .map_or(&[][..], |id| lexicon.readings(id));
-        if crate::lattice::small_word_refuses(&rules.settings, word, &readings) {
+        if crate::lattice::small_word_refuses(&rules.settings, word, &readings, small) {
             findings.push(Finding::SmallWord {
                 word: input.trim().to_string(),
             });

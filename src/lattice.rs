@@ -404,6 +404,10 @@ struct Builder<'a> {
     /// starts with a small letter and is a lexicon word with no noun
     /// reading (see [`small_word_refuses`]).
     small_non_noun: bool,
+    /// `set noun-head = capitalised` and the input, written small or with a
+    /// capital, is a lexicon word with no noun reading: its head is no noun
+    /// (see [`small_word_refuses`]).
+    non_noun: bool,
     /// That input is read by the lexicon only as a verb.
     small_verb: bool,
     /// `set noun-head = capitalised` and the input starts with a capital
@@ -666,22 +670,25 @@ pub fn build_with(
         memo,
         key: scratch.key,
         small_non_noun: false,
+        non_noun: false,
         small_verb: false,
         capitalised: false,
     };
-    b.small_non_noun = (rules.settings.verb_after_noun_capitalised
+    let known_non_noun = (rules.settings.verb_after_noun_capitalised
         || rules.settings.noun_head_capitalised)
-        && text
-            .original
-            .iter()
-            .find(|c| c.is_alphabetic())
-            .is_some_and(|c| c.is_lowercase())
         && lexicon.get(&b.text).is_some_and(|id| {
             let whole = lexicon.readings(id);
             b.small_verb = only_verb(whole);
             no_noun_reading(whole)
         });
-    b.small_verb &= b.small_non_noun;
+    b.small_non_noun = known_non_noun
+        && text
+            .original
+            .iter()
+            .find(|c| c.is_alphabetic())
+            .is_some_and(|c| c.is_lowercase());
+    b.non_noun = known_non_noun && (b.small_non_noun || rules.settings.noun_head_capitalised);
+    b.small_verb &= b.non_noun;
     b.capitalised = rules.settings.noun_head_capitalised && starts_capitalised(&text.original);
     b.parts.insert((0, 0, None, false), start);
     b.parts_at[0].push(PendingPart {
@@ -1138,7 +1145,7 @@ impl<'a> Builder<'a> {
             && (whole || key.chars().count() >= self.min_part)
             && (whole || !self.capitalised || !capitalised_head_refused(self.lexicon.readings(id)))
             && (whole
-                || !self.small_non_noun
+                || !self.non_noun
                 || !head_refused(
                     &self.rules.settings,
                     part.after_noun,
@@ -1498,11 +1505,16 @@ pub fn noun_before_verb(left: &[Tags], right: &[Tags]) -> bool {
 /// the word only as a verb (`word`: its readings), a head with no verb
 /// reading is refused under `noun-head` too (gehalten is not gehen + alten,
 /// betrat not beten + Rat). A single part is the lexicon word itself and
-/// is never refused.
+/// is never refused. `small`: the input starts with a small letter; a
+/// capitalised one (at the start of a sentence, or a nominalisation) gets
+/// the `noun-head` checks only (dramatische and Dramatische are not Drama +
+/// Tische), as a capitalised nominalised infinitive may have a noun before
+/// its verb (Autofahren).
 pub fn small_word_refuses(
     settings: &crate::rules::Settings,
     word: &[Tags],
     parts: &[&[Tags]],
+    small: bool,
 ) -> bool {
     let Some((head, rest)) = parts.split_last() else {
         return false;
@@ -1510,7 +1522,7 @@ pub fn small_word_refuses(
     if rest.is_empty() {
         return false;
     }
-    let verbs = settings.verb_after_noun_capitalised;
+    let verbs = small && settings.verb_after_noun_capitalised;
     rest.windows(2)
         .any(|w| verbs && noun_before_verb(w[0], w[1]))
         || head_refused(

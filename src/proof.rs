@@ -681,17 +681,17 @@ pub fn join(
     // Candidate instances at each junction.
     let (max_l, max_r) = rules.max_ends();
     let mut candidates: Vec<Vec<usize>> = Vec::new();
-    // The joined word starts as the first part is written; written small
-    // and known to the lexicon as no noun, it has no head read only as a
-    // noun and no noun before a verb, as `split` reads it (see
+    // The joined word starts as the first part is written; known to the
+    // lexicon as no noun, it has no head read only as a noun and, written
+    // small, no noun before a verb, as `split` reads it (see
     // `lattice::small_word_refuses`).
     let part_readings: Vec<&[Tags]> = readings.iter().map(Vec::as_slice).collect();
-    let small = (rules.settings.verb_after_noun_capitalised
-        || rules.settings.noun_head_capitalised)
-        && parts
-            .first()
-            .and_then(|p| p.chars().find(|c| c.is_alphabetic()))
-            .is_some_and(char::is_lowercase);
+    let small = parts
+        .first()
+        .and_then(|p| p.chars().find(|c| c.is_alphabetic()))
+        .is_some_and(char::is_lowercase);
+    let checked = (rules.settings.verb_after_noun_capitalised && small)
+        || rules.settings.noun_head_capitalised;
     let capitalised_head = rules.settings.noun_head_capitalised
         && parts
             .first()
@@ -708,6 +708,7 @@ pub fn join(
                     &rules.settings,
                     lexicon.readings(id),
                     &part_readings,
+                    small,
                 )
             })
     };
@@ -773,7 +774,7 @@ pub fn join(
     let found: Vec<((usize, usize), Way)> = search
         .found
         .into_iter()
-        .filter(|way| !capitalised_head && !(small && refused(&way.2)))
+        .filter(|way| !capitalised_head && !(checked && refused(&way.2)))
         .map(|way| {
             let unattested = way
                 .1

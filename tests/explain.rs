@@ -363,8 +363,19 @@ fn why_not_a_small_word_is_no_noun() {
             head: "teuer".to_string()
         }]
     );
-    // Capitalised, the same parts are no small word.
+    // Capitalised (at the start of a sentence), an adjective still has no
+    // noun head.
     let e = run(&analyzer, "Dramatisch", "Drama+Tisch");
+    assert!(
+        findings(&e)
+            .iter()
+            .any(|f| matches!(f, Finding::SmallWord { .. })),
+        "{:?}",
+        findings(&e)
+    );
+    // Capitalised, a noun may come before the verb of a nominalised
+    // infinitive: no finding of this kind.
+    let e = run(&analyzer, "Staubsaugen", "Staub+Saugen");
     assert!(
         !findings(&e)
             .iter()

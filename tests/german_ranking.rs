@@ -659,8 +659,9 @@ fn small_verb_forms_are_not_read_as_noun_plus_verb() {
 /// `set noun-head = capitalised`: a word written small that the lexicon
 /// lists with no noun reading has no last part read only as a noun (the
 /// head gives the word its class), and a head read as a noun and a verb is
-/// the verb. Capitalised, or not a lexicon word, it splits. Invented
-/// lexicon: the forms are German, the frequencies made up.
+/// the verb. Capitalised (at the start of a sentence) it has no noun head
+/// either; not a lexicon word, it splits. Invented lexicon: the forms are
+/// German, the frequencies made up.
 #[test]
 fn a_small_non_noun_word_has_no_noun_head() {
     let text = "language t\ncase fold\nset noun-head = capitalised\n\
@@ -674,10 +675,7 @@ fn a_small_non_noun_word_has_no_noun_head() {
     let lexicon = lexicon(&rules, tsv);
     let forms = |word: &str| sorted_keys(&rules, &lexicon, word);
     assert_eq!(forms("dramatisch"), [["dramatisch"]]);
-    assert_eq!(
-        forms("Dramatisch"),
-        [vec!["drama", "tisch"], vec!["dramatisch"]]
-    );
+    assert_eq!(forms("Dramatisch"), [["dramatisch"]]);
     // Not a lexicon word: split.
     assert_eq!(
         forms("dramatischtisch"),
@@ -697,7 +695,8 @@ fn a_small_non_noun_word_has_no_noun_head() {
             .len()
     };
     assert_eq!(joined(&["drama", "tisch"]), 0);
-    assert_eq!(joined(&["Drama", "tisch"]), 1);
+    // Capitalised too, as split reads it.
+    assert_eq!(joined(&["Drama", "tisch"]), 0);
     assert_eq!(joined(&["ente", "gehen"]), 0);
     assert_eq!(joined(&["eis", "kalt"]), 1);
     assert_eq!(joined(&["gehen", "alten"]), 0);
@@ -912,17 +911,32 @@ fn bundled_combining_forms_rank_unlisted_linking_lower() {
 /// A capitalised word's head is a noun or a verb in its citation form (the
 /// infinitive, nominalised: Autofahren), not a verb form with a lemma of its
 /// own (the imperative eil, the stem scher): Nachteil is not Nacht + eil,
-/// Herrscher not Herr + scher (bundled lexicon).
+/// Herrscher not Herr + scher. Capitalised at the start of a sentence, a
+/// word the lexicon reads as no noun has no noun head (Dramatische is not
+/// Drama + Tische, as dramatische is not), while a capitalised nominalised
+/// infinitive may still have a noun before its verb (Staubsaugen) (bundled
+/// lexicon).
 #[test]
-fn a_capitalised_word_has_no_finite_verb_head() {
+fn capitalised_heads_are_nouns_or_infinitives() {
     let rules = german();
     let lexicon = bundled(&rules);
     let best = |word: &str| best_forms(&rules, &lexicon, word);
     assert_whole(
         &rules,
         &lexicon,
-        &["Nachteil", "Herrscher", "Niederschlag", "Sandwich"],
+        &[
+            "Nachteil",
+            "Herrscher",
+            "Niederschlag",
+            "Sandwich",
+            "Dramatische",
+            "Romantische",
+            "Vereinbarte",
+            "dramatische",
+        ],
     );
     assert_eq!(best("Autofahren"), ["Auto", "Fahren"]);
     assert_eq!(best("Einkommensteuer"), ["Einkommen", "Steuer"]);
+    assert_eq!(best("Staubsaugen"), ["Staub", "Saugen"]);
+    assert_eq!(best("staubsaugen").len(), 1);
 }
