@@ -262,7 +262,12 @@ pub fn attested(
 
 /// Whether entry `written` (if any) has a reading whose `lemma` normalizes
 /// to `key`.
-fn lemma_is(rules: &RuleSet, lexicon: &Lexicon, written: Option<usize>, key: &str) -> bool {
+pub(crate) fn lemma_is(
+    rules: &RuleSet,
+    lexicon: &Lexicon,
+    written: Option<usize>,
+    key: &str,
+) -> bool {
     let Some(id) = written else {
         return false;
     };

@@ -479,18 +479,7 @@ pub fn combining_cost(
     });
     // A form of the word itself (its plural, Kinder or Hände) is listed
     // by the lexicon.
-    let inflected = || {
-        lexicon.get(&written).is_some_and(|w| {
-            lexicon.readings(w).iter().any(|r| {
-                r.get(crate::proof::LEMMA_TAG).is_some_and(|lemmas| {
-                    lemmas
-                        .split('|')
-                        .any(|l| rules.normalizer.normalize(l) == key)
-                })
-            })
-        })
-    };
-    if found || inflected() {
+    if found || crate::lattice::lemma_is(rules, lexicon, lexicon.get(&written), key) {
         0.0
     } else {
         cost
