@@ -291,6 +291,12 @@ fn dutch_suffix_look_alikes_stay_whole() {
         "docent",
         "bestuur",
         "bestellen",
+        "oudere",
+        "kleinere",
+        "waarderen",
+        "dansen",
+        "hoeven",
+        "volwassenen",
     ] {
         assert_eq!(best("dutch", word), word, "{word}");
     }
