@@ -319,7 +319,8 @@ fn dutch_linking_e_takes_no_name() {
 #[test]
 fn swedish_ending_look_alikes_and_for_prefix_stay_whole() {
     for word in [
-        "billiga", "manliga", "läraren", "parken", "räddar", "försvar", "fördel",
+        "billiga", "manliga", "läraren", "parken", "räddar", "försvar", "fördel", "flyger",
+        "hållas", "handlade", "mattan",
     ] {
         assert_eq!(best("swedish", word), word, "{word}");
     }
