@@ -338,9 +338,17 @@ fn danish_and_norwegian_ending_look_alikes_stay_whole() {
     for word in ["kemiske", "danske", "stillede", "sikkerheden", "tegninger"] {
         assert_eq!(best("danish", word), word, "{word}");
     }
-    for word in ["plassen", "parken", "brevet", "spilles", "medlemmene"] {
+    for word in [
+        "plassen",
+        "parken",
+        "brevet",
+        "spilles",
+        "medlemmene",
+        "passende",
+    ] {
         assert_eq!(best("norwegian", word), word, "{word}");
     }
     assert_eq!(best("danish", "sommerhus"), "sommer+hus");
     assert_eq!(best("norwegian", "håndball"), "hånd+ball");
+    assert_ne!(best("norwegian", "spørsmålene"), "spør+små+lene");
 }
