@@ -239,6 +239,13 @@ fn best(name: &'static str, surface: &str) -> String {
         .unwrap_or_default()
 }
 
+/// Each word's best analysis is the word itself.
+fn assert_whole(name: &'static str, words: &[&str]) {
+    for word in words {
+        assert_eq!(best(name, word), *word, "{word}");
+    }
+}
+
 /// Look-alikes stay whole: Dutch particle verbs and ver-/her- derivations,
 /// and in all four languages words whose end is an inflectional ending
 /// that is also a word (the definite -ene, -ens, the present -ar, -er, the
@@ -283,23 +290,24 @@ fn particle_verbs_prefixes_and_inflectional_endings_stay_whole() {
 /// of bestuur), so these derivations stay whole; compounds still split.
 #[test]
 fn dutch_suffix_look_alikes_stay_whole() {
-    for word in [
-        "houding",
-        "meldingen",
-        "waardering",
-        "bruggen",
-        "docent",
-        "bestuur",
-        "bestellen",
-        "oudere",
-        "kleinere",
-        "waarderen",
-        "dansen",
-        "hoeven",
-        "volwassenen",
-    ] {
-        assert_eq!(best("dutch", word), word, "{word}");
-    }
+    assert_whole(
+        "dutch",
+        &[
+            "houding",
+            "meldingen",
+            "waardering",
+            "bruggen",
+            "docent",
+            "bestuur",
+            "bestellen",
+            "oudere",
+            "kleinere",
+            "waarderen",
+            "dansen",
+            "hoeven",
+            "volwassenen",
+        ],
+    );
     assert_eq!(best("dutch", "hoofdstad"), "hoofd+stad");
 }
 
@@ -318,12 +326,13 @@ fn dutch_linking_e_takes_no_name() {
 /// för- of verbs stay whole; compounds still split.
 #[test]
 fn swedish_ending_look_alikes_and_for_prefix_stay_whole() {
-    for word in [
-        "billiga", "manliga", "läraren", "parken", "räddar", "försvar", "fördel", "flyger",
-        "hållas", "handlade", "mattan",
-    ] {
-        assert_eq!(best("swedish", word), word, "{word}");
-    }
+    assert_whole(
+        "swedish",
+        &[
+            "billiga", "manliga", "läraren", "parken", "räddar", "försvar", "fördel", "flyger",
+            "hållas", "handlade", "mattan",
+        ],
+    );
     assert_eq!(best("swedish", "flickvän"), "flicka+vän");
     // The superlative ending -ste is no last part.
     assert_ne!(best("swedish", "tandborste"), "tand+bor+ste");
@@ -335,19 +344,21 @@ fn swedish_ending_look_alikes_and_for_prefix_stay_whole() {
 /// -es) stay whole; compounds still split.
 #[test]
 fn danish_and_norwegian_ending_look_alikes_stay_whole() {
-    for word in ["kemiske", "danske", "stillede", "sikkerheden", "tegninger"] {
-        assert_eq!(best("danish", word), word, "{word}");
-    }
-    for word in [
-        "plassen",
-        "parken",
-        "brevet",
-        "spilles",
-        "medlemmene",
-        "passende",
-    ] {
-        assert_eq!(best("norwegian", word), word, "{word}");
-    }
+    assert_whole(
+        "danish",
+        &["kemiske", "danske", "stillede", "sikkerheden", "tegninger"],
+    );
+    assert_whole(
+        "norwegian",
+        &[
+            "plassen",
+            "parken",
+            "brevet",
+            "spilles",
+            "medlemmene",
+            "passende",
+        ],
+    );
     assert_eq!(best("danish", "sommerhus"), "sommer+hus");
     assert_eq!(best("norwegian", "håndball"), "hånd+ball");
     assert_ne!(best("norwegian", "spørsmålene"), "spør+små+lene");
